@@ -1,0 +1,3 @@
+//! Stillpoint cover stage (under construction).
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]

@@ -1,0 +1,3 @@
+//! Stillpoint table stage (under construction).
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]
