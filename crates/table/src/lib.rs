@@ -34,16 +34,23 @@
 #![deny(missing_docs)]
 
 pub mod error;
+pub mod fundamental;
 pub mod ids;
 pub mod json;
 pub mod table;
 pub mod text;
+pub mod unger;
 
 pub use error::{CollapseError, NameKind, ParseError, TableError};
+pub use fundamental::{
+    analyze, collapse_chains, column_transitions, total_transitions, Analysis, Chain, ChangeMode,
+    ColumnTransitions, Oscillation, TotalTransition,
+};
 pub use ids::{ColumnId, InputId, OutputId, StateId};
 pub use json::parse_json;
 pub use table::{FlowTable, FlowTableBuilder, OutBit};
 pub use text::parse_text;
+pub use unger::{essential_hazards, EssentialHazard};
 
 /// Size limits every constructor and parser enforces (larger inputs are refused with a
 /// clear, located error).

@@ -461,6 +461,15 @@ impl FlowTable {
         side(self, other) && side(other, self)
     }
 
+    /// A copy with other next states (same shape), used by chain collapsing.
+    pub(crate) fn with_next(&self, next: Vec<Option<StateId>>) -> FlowTable {
+        assert_eq!(next.len(), self.next.len(), "same shape");
+        FlowTable {
+            next,
+            ..self.clone()
+        }
+    }
+
     /// The canonical text form (see [`crate::text`]).
     pub fn to_text(&self) -> String {
         crate::text::print_text(self)

@@ -303,13 +303,15 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                             name: n,
                             circled,
                         }),
-                        Some(_) => return Err(err(
-                            e,
-                            format!(
+                        Some(_) => {
+                            return Err(err(
+                                e,
+                                format!(
                                 "expected an entry `NEXT`, `(NEXT)`, `NEXT/OUT` or `-`, found `{}`",
                                 show(e.text)
                             ),
-                        )),
+                            ))
+                        }
                         None => {}
                     }
                     next_slots.push(None);
@@ -324,13 +326,15 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                             for (j, ch) in o.chars().enumerate() {
                                 match OutBit::from_char(ch) {
                                     Some(b) => out.push(b),
-                                    None => return Err(ParseError::new(
-                                        e.line,
-                                        ocol + j,
-                                        format!(
+                                    None => {
+                                        return Err(ParseError::new(
+                                            e.line,
+                                            ocol + j,
+                                            format!(
                                             "expected an output bit `0`, `1` or `-`, found `{ch}`"
                                         ),
-                                    )),
+                                        ))
+                                    }
                                 }
                             }
                         }
