@@ -37,9 +37,11 @@ pub mod error;
 pub mod fundamental;
 pub mod ids;
 pub mod json;
+pub mod reduce;
 pub mod table;
 pub mod text;
 pub mod unger;
+pub mod verify;
 
 pub use error::{CollapseError, NameKind, ParseError, TableError};
 pub use fundamental::{
@@ -48,6 +50,7 @@ pub use fundamental::{
 };
 pub use ids::{ColumnId, InputId, OutputId, StateId};
 pub use json::parse_json;
+pub use reduce::{minimum_closed_cover, reduce, ClosedCover, ReduceConfig, ReduceStats, Reduction};
 pub use table::{FlowTable, FlowTableBuilder, OutBit};
 pub use text::parse_text;
 pub use unger::{essential_hazards, EssentialHazard};
