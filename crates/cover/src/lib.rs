@@ -1,3 +1,372 @@
-//! Stillpoint cover stage (under construction).
+//! Hazard-free two-level (sum-of-products) minimisation, usable on its own.
+//!
+//! The primary types are [`Cube`] (a product term over up to 64 variables, packed in two
+//! `u64` words), [`Function`] (an incompletely specified function with listed input
+//! [`Transition`]s), [`MultiFunction`] (several outputs over the same variables) and
+//! [`Solution`] (the cover of every output and the distinct shared products). The entry
+//! point is [`minimize`], configured by [`Config`].
+//!
+//! Hazard modes ([`HazardMode`]):
+//! - `None`: a plain minimum cover.
+//! - `Static`: for every single-variable change between two **on-set** points (on-on
+//!   pairs only; pairs with a don't-care end are not constrained), one product holds
+//!   both points, so no static-1 logic hazard (methods brief §7.2).
+//! - `Full` (Nowick & Dill): every listed transition is free of static and dynamic logic
+//!   hazards: required cubes must each lie in one product and every product must be a
+//!   dhf-implicant (no illegal intersection with a privileged cube). Only listed
+//!   transitions count; single-variable on-on adjacency is not implied. Don't-cares
+//!   inside a 1→1 transition cube become 1, inside a 0→0 cube 0.
+//!
+//! Engines: primes by recursive splitting ([`primes`]), exact unate covering by branch
+//! and bound ([`covering`]), and a heuristic expand / irredundant / reduce loop
+//! ([`Effort::Fast`]). Results are checked by the independent [`verify`] module and
+//! the Kleene evaluator in [`ternary`]. The crate knows nothing of flow tables.
+//!
+//! ```
+//! use stillpoint_cover::{minimize, Config, Function, HazardMode, MultiFunction};
+//! // ab + a'c over (a, b, c): the hazard-free cover adds the consensus term bc.
+//! let f = Function::from_minterms(3, &[1, 3, 6, 7], &[], vec![])?;
+//! let mf = MultiFunction::single(vec!["a".into(), "b".into(), "c".into()], "f", f);
+//! let plain = minimize(&mf, &Config::default().hazards(HazardMode::None))?;
+//! assert_eq!(plain.cube_count, 2);
+//! let safe = minimize(&mf, &Config::default().hazards(HazardMode::Static))?;
+//! assert_eq!(safe.cube_count, 3);
+//! assert!(safe.optimal);
+//! stillpoint_cover::verify::check(&mf, &safe, HazardMode::Static).map_err(|v| format!("{v:?}"))?;
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
+
+pub mod algebra;
+pub mod covering;
+mod cube;
+mod exact;
+pub mod file;
+mod function;
+pub mod hazard;
+mod heuristic;
+pub mod primes;
+pub mod rows;
+pub mod ternary;
+pub mod verify;
+
+pub use cube::{expression, Cube, MAX_VARS};
+pub use function::{Function, MultiFunction, Transition};
+
+use std::time::{Duration, Instant};
+
+/// Everything that can go wrong in this crate.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[non_exhaustive]
+pub enum CoverError {
+    /// A cube string could not be read.
+    #[error("bad cube {text:?}: {reason}")]
+    BadCube {
+        /// The text given.
+        text: String,
+        /// What is wrong.
+        reason: String,
+    },
+    /// More variables than a cube can hold.
+    #[error("{nvars} variables: at most 64 are supported")]
+    TooManyVariables {
+        /// The number asked for.
+        nvars: usize,
+    },
+    /// A minterm number does not fit the number of variables.
+    #[error("minterm {minterm} does not exist with {nvars} variables (largest is 2^{nvars} - 1)")]
+    MintermOutOfRange {
+        /// The minterm.
+        minterm: u64,
+        /// The number of variables.
+        nvars: usize,
+    },
+    /// A cube has a literal beyond the last variable.
+    #[error("a cube has a literal beyond the last of {nvars} variables")]
+    CubeOutOfRange {
+        /// The number of variables.
+        nvars: usize,
+    },
+    /// A point is both in the on-set and the don't-care set.
+    #[error("point {point} is in both the on-set and the don't-care set")]
+    OnDcOverlap {
+        /// The point as a cube string.
+        point: String,
+        /// Its minterm number, if it is one.
+        minterm: Option<u64>,
+    },
+    /// A listed transition is malformed (same end points, or a don't-care end point).
+    #[error("transition {reason}")]
+    BadTransition {
+        /// The transition.
+        transition: Transition,
+        /// What is wrong, naming the transition.
+        reason: String,
+    },
+    /// The function itself is not monotone along a listed transition, so no circuit can
+    /// make it glitch-free.
+    #[error("output {output}: function hazard on transition {reason}")]
+    FunctionHazard {
+        /// The output.
+        output: String,
+        /// The transition.
+        transition: Transition,
+        /// Why, naming the transition as minterms and cube strings.
+        reason: String,
+    },
+    /// No sum of products is free of logic hazards on a listed transition.
+    #[error("output {output}: no hazard-free cover exists for transition {reason}")]
+    NoHazardFreeCover {
+        /// The output.
+        output: String,
+        /// The transition that prevents it.
+        transition: Transition,
+        /// Why, naming the transition as minterms and cube strings.
+        reason: String,
+    },
+    /// The function description is inconsistent (outputs, variable count).
+    #[error("invalid function: {reason}")]
+    Invalid {
+        /// What is wrong.
+        reason: String,
+    },
+}
+
+/// Which logic hazards the cover must avoid.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum HazardMode {
+    /// A plain minimum cover.
+    None,
+    /// No static-1 logic hazard for any single-variable change between on-set points.
+    Static,
+    /// Every listed transition free of static and dynamic logic hazards (Nowick & Dill).
+    Full,
+}
+
+impl HazardMode {
+    /// `none`, `static` or `full`.
+    pub fn name(self) -> &'static str {
+        match self {
+            HazardMode::None => "none",
+            HazardMode::Static => "static",
+            HazardMode::Full => "full",
+        }
+    }
+}
+
+/// Exact search or the heuristic.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum Effort {
+    /// Exact minimum within the budget (proves optimality or gives a lower bound).
+    Exact,
+    /// The expand / irredundant / reduce heuristic (no prime generation); reports a
+    /// lower bound so the gap is known.
+    Fast,
+}
+
+/// Settings of [`minimize`], built with chained setters.
+///
+/// ```
+/// use stillpoint_cover::{Config, Effort, HazardMode};
+/// use std::time::Duration;
+/// let cfg = Config::default().hazards(HazardMode::Static).effort(Effort::Fast).budget(Duration::from_secs(5));
+/// assert_eq!(cfg.hazard_mode(), HazardMode::Static);
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Config {
+    hazards: HazardMode,
+    effort: Effort,
+    budget: Duration,
+    node_limit: u64,
+    share_products: bool,
+}
+
+impl Default for Config {
+    fn default() -> Self {
+        Config {
+            hazards: HazardMode::Full,
+            effort: Effort::Exact,
+            budget: Duration::from_secs(60),
+            node_limit: u64::MAX,
+            share_products: true,
+        }
+    }
+}
+
+impl Config {
+    /// The hazard mode (default `Full`).
+    pub fn hazards(mut self, mode: HazardMode) -> Self {
+        self.hazards = mode;
+        self
+    }
+    /// The effort (default `Exact`).
+    pub fn effort(mut self, effort: Effort) -> Self {
+        self.effort = effort;
+        self
+    }
+    /// The time budget of the exact search (default 60 s).
+    pub fn budget(mut self, budget: Duration) -> Self {
+        self.budget = budget;
+        self
+    }
+    /// The most branch-and-bound nodes per covering problem (default unlimited).
+    pub fn node_limit(mut self, nodes: u64) -> Self {
+        self.node_limit = nodes;
+        self
+    }
+    /// Whether outputs may share products (default `true`).
+    pub fn share_products(mut self, share: bool) -> Self {
+        self.share_products = share;
+        self
+    }
+    /// The configured hazard mode.
+    pub fn hazard_mode(&self) -> HazardMode {
+        self.hazards
+    }
+    /// The configured effort.
+    pub fn effort_level(&self) -> Effort {
+        self.effort
+    }
+    /// The configured budget.
+    pub fn time_budget(&self) -> Duration {
+        self.budget
+    }
+    /// The configured node limit.
+    pub fn nodes(&self) -> u64 {
+        self.node_limit
+    }
+    /// Whether sharing is on.
+    pub fn sharing(&self) -> bool {
+        self.share_products
+    }
+}
+
+/// The cover of one output.
+#[derive(Debug, Clone, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct OutputCover {
+    /// The output's name.
+    pub name: String,
+    /// Its products, sorted.
+    pub cubes: Vec<Cube>,
+    /// Whether its cube count is proven minimum for this output (single output: the
+    /// search finished; several shared outputs: the count meets the output's own lower
+    /// bound).
+    pub optimal: bool,
+    /// A proven lower bound on the number of products this output needs.
+    pub lower_bound: usize,
+}
+
+impl OutputCover {
+    /// The literals of this output's products.
+    pub fn literal_count(&self) -> usize {
+        self.cubes.iter().map(|c| c.literal_count()).sum()
+    }
+}
+
+/// Search statistics.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct Stats {
+    /// Primes generated (all outputs and output groups).
+    pub primes: usize,
+    /// Candidate products after the dhf reduction and deduplication (covering columns).
+    pub columns: usize,
+    /// Covering rows (distinct point signatures, required cubes, adjacent pairs).
+    pub rows: usize,
+    /// Rows and columns left after the root reductions, summed over problems.
+    pub core: (usize, usize),
+    /// Branch-and-bound nodes.
+    pub nodes: u64,
+    /// Whether the heuristic produced the covers.
+    pub heuristic: bool,
+    /// Wall time.
+    pub elapsed: Duration,
+}
+
+/// The result of [`minimize`].
+#[derive(Debug, Clone, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct Solution {
+    /// One cover per output, in the order of the outputs.
+    pub outputs: Vec<OutputCover>,
+    /// The distinct products over all outputs, sorted.
+    pub products: Vec<Cube>,
+    /// `products.len()`.
+    pub cube_count: usize,
+    /// Literals summed over the distinct products.
+    pub literal_count: usize,
+    /// Whether the product count is proven minimum for the mode (products first, then
+    /// literals, for exact covers that finished).
+    pub optimal: bool,
+    /// A proven lower bound on the number of distinct products.
+    pub lower_bound: usize,
+    /// How the search went.
+    pub stats: Stats,
+}
+
+impl Solution {
+    /// The cover of output `name`.
+    pub fn output(&self, name: &str) -> Option<&OutputCover> {
+        self.outputs.iter().find(|o| o.name == name)
+    }
+
+    pub(crate) fn assemble(
+        outputs: Vec<OutputCover>,
+        optimal: bool,
+        lower_bound: usize,
+        stats: Stats,
+    ) -> Solution {
+        let mut products: Vec<Cube> = outputs
+            .iter()
+            .flat_map(|o| o.cubes.iter().copied())
+            .collect();
+        products.sort();
+        products.dedup();
+        let literal_count = products.iter().map(|c| c.literal_count()).sum();
+        let cube_count = products.len();
+        Solution {
+            outputs,
+            cube_count,
+            literal_count,
+            products,
+            optimal,
+            lower_bound: lower_bound.min(cube_count),
+            stats,
+        }
+    }
+}
+
+/// Minimises every output of `f` under `cfg`.
+///
+/// Errors: [`CoverError::FunctionHazard`] or [`CoverError::NoHazardFreeCover`] (full
+/// mode), naming the transition; [`CoverError::Invalid`] for inconsistent input.
+///
+/// ```
+/// use stillpoint_cover::{minimize, Config, Function, MultiFunction, Transition};
+/// // methods.md §7.3 CHECK HF-1b [computed]: the single product c' is hazard-free.
+/// let f = Function::from_minterms(3, &[0, 2, 6, 4], &[5, 7],
+///     vec![Transition { start: 0, end: 3 }, Transition { start: 2, end: 6 }])?;
+/// let mf = MultiFunction::single(vec!["a".into(), "b".into(), "c".into()], "f", f);
+/// let sol = minimize(&mf, &Config::default())?;
+/// assert_eq!(sol.products[0].to_string(3), "--0");
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
+pub fn minimize(f: &MultiFunction, cfg: &Config) -> Result<Solution, CoverError> {
+    let started = Instant::now();
+    f.validate()?;
+    let mut specs = Vec::with_capacity(f.outputs.len());
+    for (name, func) in &f.outputs {
+        specs.push(hazard::prepare(name, func, cfg.hazards)?);
+    }
+    let deadline = started + cfg.budget;
+    let mut sol = match cfg.effort {
+        Effort::Exact => exact::solve(&specs, cfg, deadline)?,
+        Effort::Fast => heuristic::solve(&specs, cfg, deadline),
+    };
+    sol.stats.elapsed = started.elapsed();
+    Ok(sol)
+}

@@ -1,0 +1,315 @@
+//! Hazard constraints of one output: the effective on/don't-care/off sets, required
+//! cubes and privileged cubes (Nowick & Dill), function-hazard checks, the existence
+//! test, and the reduction of primes to dhf-primes.
+//!
+//! Reference: S. M. Nowick and D. L. Dill, "Exact two-level minimization of hazard-free
+//! logic with multiple-input changes", IEEE Trans. CAD 14(8), 1995 (conditions from
+//! memory, as restated in our methods brief §7.3).
+//!
+//! Don't-cares inside transition cubes: inside a static 1→1 cube they become 1 (the
+//! whole cube must lie in one product); inside a static 0→0 cube they become 0 (no
+//! product may meet the cube, or the output could pulse); inside a dynamic cube they
+//! stay free: every product meeting the cube must hold its 1-end point, so whatever
+//! value the cover gives them is monotone along the transition.
+
+use crate::algebra::{complement, meets, scc, sharp, witness};
+use crate::cube::Cube;
+use crate::function::{Function, Transition};
+use crate::{CoverError, HazardMode};
+
+/// A privileged cube: any product meeting `cube` must contain `start`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Privileged {
+    /// The transition cube.
+    pub cube: Cube,
+    /// Its 1-end point (a full-length cube).
+    pub start: Cube,
+    /// The transition it comes from.
+    pub transition: Transition,
+}
+
+/// A cube that must lie inside one product.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Required {
+    /// The cube.
+    pub cube: Cube,
+    /// The transition it comes from.
+    pub transition: Transition,
+}
+
+/// Everything the minimisers need to know about one output.
+#[derive(Debug, Clone)]
+pub struct OutputSpec {
+    /// The output's name.
+    pub name: String,
+    /// The number of variables.
+    pub nvars: usize,
+    /// Effective on-set (with don't-cares of 1→1 cubes set to 1).
+    pub on: Vec<Cube>,
+    /// Effective don't-care set.
+    pub dc: Vec<Cube>,
+    /// Effective off-set.
+    pub off: Vec<Cube>,
+    /// Required cubes (full mode).
+    pub required: Vec<Required>,
+    /// Privileged cubes (full mode).
+    pub privileged: Vec<Privileged>,
+    /// Whether every adjacent on-on pair needs one product (static mode).
+    pub adjacent_pairs: bool,
+}
+
+impl OutputSpec {
+    /// Whether `c` may be a product of this output: no off-set point and no illegal
+    /// intersection with a privileged cube.
+    pub fn legal(&self, c: &Cube) -> bool {
+        !meets(&self.off, c)
+            && self
+                .privileged
+                .iter()
+                .all(|p| !p.cube.intersects(c) || c.contains(&p.start))
+    }
+
+    /// The smallest cube containing `c` that intersects no privileged cube illegally.
+    pub fn closure(&self, c: &Cube) -> Cube {
+        let mut cur = *c;
+        loop {
+            let mut changed = false;
+            for p in &self.privileged {
+                if p.cube.intersects(&cur) && !cur.contains(&p.start) {
+                    cur = cur.supercube(&p.start);
+                    changed = true;
+                }
+            }
+            if !changed {
+                return cur;
+            }
+        }
+    }
+}
+
+/// Builds the constraints of output `name` for `mode`.
+///
+/// Errors: [`CoverError::FunctionHazard`] when a listed transition is not
+/// function-hazard-free, [`CoverError::NoHazardFreeCover`] when some required cube lies
+/// in no dhf-implicant.
+pub fn prepare(name: &str, f: &Function, mode: HazardMode) -> Result<OutputSpec, CoverError> {
+    let n = f.nvars();
+    let on: Vec<Cube> = f.on_cubes().to_vec();
+    let dc: Vec<Cube> = f.dc_cubes().to_vec();
+    let off = f.off_cubes();
+    let mut spec = OutputSpec {
+        name: name.to_string(),
+        nvars: n,
+        on,
+        dc,
+        off,
+        required: Vec::new(),
+        privileged: Vec::new(),
+        adjacent_pairs: mode == HazardMode::Static,
+    };
+    if mode != HazardMode::Full {
+        return Ok(spec);
+    }
+    let hazard = |t: &Transition, reason: String| CoverError::FunctionHazard {
+        output: name.to_string(),
+        transition: *t,
+        reason: format!("{}: {reason}", t.describe(n)),
+    };
+    // Static transitions first: they fix don't-cares.
+    let mut ones: Vec<(Cube, Transition)> = Vec::new();
+    let mut zeros: Vec<(Cube, Transition)> = Vec::new();
+    for t in f.transitions() {
+        let cube = t.cube(n);
+        match (f.value(t.start), f.value(t.end)) {
+            (Some(true), Some(true)) => {
+                if let Some(w) = spec.off.iter().find_map(|o| witness(o, &cube, n)) {
+                    return Err(hazard(
+                        t,
+                        format!(
+                            "both ends are 1 but the transition cube {} holds the off-set point {}",
+                            cube.to_string(n),
+                            w.to_string(n)
+                        ),
+                    ));
+                }
+                ones.push((cube, *t));
+            }
+            (Some(false), Some(false)) => {
+                if let Some(w) = spec.on.iter().find_map(|o| witness(o, &cube, n)) {
+                    return Err(hazard(
+                        t,
+                        format!(
+                            "both ends are 0 but the transition cube {} holds the on-set point {}",
+                            cube.to_string(n),
+                            w.to_string(n)
+                        ),
+                    ));
+                }
+                zeros.push((cube, *t));
+            }
+            _ => {}
+        }
+    }
+    for (c1, t1) in &ones {
+        for (c0, t0) in &zeros {
+            if let Some(w) = witness(c1, c0, n) {
+                return Err(CoverError::NoHazardFreeCover {
+                    output: name.to_string(),
+                    transition: *t1,
+                    reason: format!(
+                        "{}: its transition cube shares the don't-care point {} with the 0 -> 0 transition {}, so it would have to be both 1 and 0",
+                        t1.describe(n),
+                        w.to_string(n),
+                        t0.describe(n)
+                    ),
+                });
+            }
+        }
+    }
+    let forced: Vec<Cube> = ones.iter().chain(&zeros).map(|(c, _)| *c).collect();
+    spec.dc = sharp(&spec.dc, &forced);
+    spec.on.extend(ones.iter().map(|(c, _)| *c));
+    scc(&mut spec.on);
+    spec.off.extend(zeros.iter().map(|(c, _)| *c));
+    scc(&mut spec.off);
+    for (c, t) in &ones {
+        spec.required.push(Required {
+            cube: *c,
+            transition: *t,
+        });
+    }
+    // Dynamic transitions.
+    for t in f.transitions() {
+        let (one_end, zero_end) = match (f.value(t.start), f.value(t.end)) {
+            (Some(true), Some(false)) => (t.start, t.end),
+            (Some(false), Some(true)) => (t.end, t.start),
+            _ => continue,
+        };
+        let _ = zero_end;
+        let cube = t.cube(n);
+        let p = Cube::minterm(n, one_end);
+        let mut req = Vec::new();
+        for q in &spec.on {
+            let Some(part) = q.intersection(&cube) else {
+                continue;
+            };
+            let r = p.supercube(&part);
+            if let Some(d) = spec.off.iter().find_map(|o| witness(o, &r, n)) {
+                // The point of `part` farthest from p.
+                let far = far_point(&p, &part, n);
+                return Err(hazard(
+                    t,
+                    format!(
+                        "the value is not monotone along the transition: the path {} -> {} -> {} has values 1, 0, 1",
+                        p.to_string(n),
+                        d.to_string(n),
+                        far.to_string(n)
+                    ),
+                ));
+            }
+            req.push(r);
+        }
+        scc(&mut req);
+        for r in req {
+            spec.required.push(Required {
+                cube: r,
+                transition: *t,
+            });
+        }
+        spec.privileged.push(Privileged {
+            cube,
+            start: p,
+            transition: *t,
+        });
+    }
+    // Existence: every required cube inside some dhf-implicant.
+    for r in &spec.required {
+        let c = spec.closure(&r.cube);
+        if let Some(d) = spec.off.iter().find_map(|o| witness(o, &c, n)) {
+            let culprit = spec
+                .privileged
+                .iter()
+                .find(|p| p.cube.intersects(&r.cube) && !r.cube.contains(&p.start));
+            let why = match culprit {
+                Some(p) => format!(
+                    "its required cube {} meets the privileged cube {} of transition {} without holding its start point {}; every product holding both also holds the off-set point {}",
+                    r.cube.to_string(n),
+                    p.cube.to_string(n),
+                    p.transition.describe(n),
+                    p.start.to_string(n),
+                    d.to_string(n)
+                ),
+                None => format!("its required cube {} holds the off-set point {}", r.cube.to_string(n), d.to_string(n)),
+            };
+            return Err(CoverError::NoHazardFreeCover {
+                output: name.to_string(),
+                transition: r.transition,
+                reason: format!("{}: {why}", r.transition.describe(n)),
+            });
+        }
+    }
+    let _ = complement;
+    Ok(spec)
+}
+
+/// The point of `part` farthest from point `p` (free variables take `p`'s opposite).
+fn far_point(p: &Cube, part: &Cube, n: usize) -> Cube {
+    let mut c = *part;
+    for v in 0..n {
+        if c.literal(v).is_none() {
+            c = c.with_literal(v, p.literal(v).map(|b| !b).or(Some(false)));
+        }
+    }
+    c
+}
+
+/// Reduces primes to dhf-primes: a prime meeting a privileged cube without holding its
+/// start point is replaced by its maximal subcubes disjoint from that cube; repeated
+/// against every privileged cube, then containment-reduced (methods brief §7.3 step 2).
+pub fn dhf_split(primes: Vec<Cube>, privileged: &[Privileged]) -> Vec<Cube> {
+    let mut work = primes;
+    for p in privileged {
+        let mut next = Vec::with_capacity(work.len());
+        for c in work {
+            if !p.cube.intersects(&c) || c.contains(&p.start) {
+                next.push(c);
+                continue;
+            }
+            let mut bits = p.cube.care_bits() & !c.care_bits();
+            while bits != 0 {
+                let v = bits.trailing_zeros() as usize;
+                next.push(c.with_literal(v, p.cube.literal(v).map(|b| !b)));
+                bits &= bits - 1;
+            }
+        }
+        scc(&mut next);
+        work = next;
+    }
+    // A piece split off for one privileged cube may meet an earlier one illegally only
+    // if it met it before; pieces are subcubes, so one more pass settles it.
+    let mut changed = true;
+    while changed {
+        changed = false;
+        let mut next = Vec::with_capacity(work.len());
+        for c in work {
+            if let Some(p) = privileged
+                .iter()
+                .find(|p| p.cube.intersects(&c) && !c.contains(&p.start))
+            {
+                changed = true;
+                let mut bits = p.cube.care_bits() & !c.care_bits();
+                while bits != 0 {
+                    let v = bits.trailing_zeros() as usize;
+                    next.push(c.with_literal(v, p.cube.literal(v).map(|b| !b)));
+                    bits &= bits - 1;
+                }
+            } else {
+                next.push(c);
+            }
+        }
+        scc(&mut next);
+        work = next;
+    }
+    work.sort();
+    work
+}

@@ -1,0 +1,283 @@
+//! The heuristic minimiser ([`crate::Effort::Fast`]): an expand / irredundant / reduce
+//! loop of our own on covers, with no prime generation, respecting the hazard
+//! constraints (legal products only; required cubes each inside one product; in static
+//! mode adjacent on-on pairs inside one product, added after the loop and kept by a
+//! constrained irredundant pass). Heuristic: no optimality claim; a lower bound from
+//! pairwise incompatible points is reported so the gap is known.
+
+use crate::algebra::{covers_cube, intersect, scc, sharp, split};
+use crate::cube::Cube;
+use crate::hazard::OutputSpec;
+use crate::{Config, OutputCover, Solution, Stats};
+use std::time::Instant;
+
+pub(crate) fn solve(specs: &[OutputSpec], cfg: &Config, deadline: Instant) -> Solution {
+    let mut covers: Vec<Vec<Cube>> = specs.iter().map(|s| cover_one(s, deadline)).collect();
+    if cfg.sharing() && specs.len() > 1 {
+        share(specs, &mut covers);
+    }
+    let mut outs = Vec::with_capacity(specs.len());
+    let mut lb_all = 0;
+    for (s, mut cubes) in specs.iter().zip(covers) {
+        cubes.sort();
+        let lb = lower_bound(s, &cubes);
+        lb_all = lb_all.max(lb);
+        outs.push(OutputCover {
+            name: s.name.clone(),
+            optimal: cubes.len() <= lb,
+            lower_bound: lb,
+            cubes,
+        });
+    }
+    let stats = Stats {
+        heuristic: true,
+        ..Stats::default()
+    };
+    let mut sol = Solution::assemble(outs, false, lb_all, stats);
+    sol.optimal = sol.cube_count <= sol.lower_bound;
+    sol
+}
+
+/// Heuristic cover of one output.
+pub(crate) fn cover_one(s: &OutputSpec, deadline: Instant) -> Vec<Cube> {
+    // Start: required cubes (closed under the privileged rule) and the on-set outside
+    // every privileged cube (its points inside one are held by required cubes).
+    let mut f: Vec<Cube> = s.required.iter().map(|r| s.closure(&r.cube)).collect();
+    let privs: Vec<Cube> = s.privileged.iter().map(|p| p.cube).collect();
+    f.extend(sharp(&s.on, &privs));
+    scc(&mut f);
+    let mut f = expand_all(s, f);
+    irredundant(s, &mut f, false);
+    let mut best = f.clone();
+    let mut stale = 0;
+    while stale < 2 && Instant::now() < deadline {
+        reduce(s, &mut f);
+        f = expand_all(s, f);
+        irredundant(s, &mut f, false);
+        if cost(&f) < cost(&best) {
+            best = f.clone();
+            stale = 0;
+        } else {
+            stale += 1;
+        }
+    }
+    let mut f = best;
+    if s.adjacent_pairs {
+        add_pair_terms(s, &mut f);
+        irredundant(s, &mut f, true);
+    }
+    f
+}
+
+fn cost(f: &[Cube]) -> (usize, usize) {
+    (f.len(), f.iter().map(|c| c.literal_count()).sum())
+}
+
+/// Expands every cube to a maximal legal cube, largest first, dropping cubes it covers.
+fn expand_all(s: &OutputSpec, mut f: Vec<Cube>) -> Vec<Cube> {
+    f.sort_by_key(|c| (c.literal_count(), *c));
+    let mut done: Vec<Cube> = Vec::with_capacity(f.len());
+    for i in 0..f.len() {
+        let c = f[i];
+        if done.iter().any(|d| d.contains(&c)) {
+            continue;
+        }
+        let e = expand(s, c, &f[i + 1..]);
+        done.retain(|d| !e.contains(d));
+        done.push(e);
+    }
+    done
+}
+
+/// Raises literals of `c` one at a time while the cube stays legal, trying first the
+/// variables that stand between `c` and most of the `others`.
+fn expand(s: &OutputSpec, c: Cube, others: &[Cube]) -> Cube {
+    let mut vars: Vec<(usize, usize)> = Vec::new();
+    let mut bits = c.care_bits();
+    while bits != 0 {
+        let v = bits.trailing_zeros() as usize;
+        bits &= bits - 1;
+        let lit = c.literal(v);
+        let score = others.iter().filter(|d| d.literal(v) != lit).count();
+        vars.push((v, score));
+    }
+    vars.sort_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(&b.0)));
+    let mut cur = c;
+    for (v, _) in vars {
+        let up = cur.with_literal(v, None);
+        if s.legal(&up) {
+            cur = up;
+        }
+    }
+    cur
+}
+
+/// Removes products not needed for the on-set, the required cubes and (when `pairs`)
+/// the adjacent on-on pairs; most-literal products are tried first.
+fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: bool) {
+    f.sort_by_key(|c| (std::cmp::Reverse(c.literal_count()), *c));
+    let mut i = 0;
+    while i < f.len() {
+        let c = f[i];
+        let others: Vec<Cube> = f
+            .iter()
+            .enumerate()
+            .filter(|&(k, _)| k != i)
+            .map(|(_, d)| *d)
+            .collect();
+        let mut rest = others.clone();
+        rest.extend_from_slice(&s.dc);
+        let mut removable = covers_cube(&rest, &c);
+        if removable {
+            removable = s
+                .required
+                .iter()
+                .all(|r| !c.contains(&r.cube) || others.iter().any(|d| d.contains(&r.cube)));
+        }
+        if removable && pairs {
+            removable = pairs_held_without(s, &c, &others);
+        }
+        if removable {
+            f.remove(i);
+        } else {
+            i += 1;
+        }
+    }
+}
+
+/// Whether every adjacent on-on pair inside `c` is held by some cube of `others`.
+fn pairs_held_without(s: &OutputSpec, c: &Cube, others: &[Cube]) -> bool {
+    for v in 0..s.nvars {
+        if c.literal(v).is_some() {
+            continue;
+        }
+        let (lo, hi) = split(&s.on, v);
+        let edges = intersect(&intersect(&lo, &hi), &[*c]);
+        let holders: Vec<Cube> = others
+            .iter()
+            .copied()
+            .filter(|d| d.literal(v).is_none())
+            .collect();
+        for e in &edges {
+            if !covers_cube(&holders, e) {
+                return false;
+            }
+        }
+    }
+    true
+}
+
+/// Adds, for every adjacent on-on pair held by no single product, a maximal legal cube
+/// holding it (consensus terms).
+fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>) {
+    for v in 0..s.nvars {
+        let (lo, hi) = split(&s.on, v);
+        let edges = intersect(&lo, &hi);
+        if edges.is_empty() {
+            continue;
+        }
+        let holders: Vec<Cube> = f
+            .iter()
+            .copied()
+            .filter(|d| d.literal(v).is_none())
+            .collect();
+        let mut open = sharp(&edges, &holders);
+        while let Some(&u) = open.first() {
+            let e = expand(s, u, &open[1..]);
+            f.push(e);
+            open = sharp(&open, &[e]);
+        }
+    }
+    scc(f);
+}
+
+/// Shrinks each product to the smallest cube holding what only it covers.
+fn reduce(s: &OutputSpec, f: &mut [Cube]) {
+    for i in 0..f.len() {
+        let c = f[i];
+        let mut rest: Vec<Cube> = f
+            .iter()
+            .enumerate()
+            .filter(|&(k, _)| k != i)
+            .map(|(_, d)| *d)
+            .collect();
+        let others = rest.clone();
+        rest.extend_from_slice(&s.dc);
+        let only = sharp(&[c], &rest);
+        let mut pieces = only;
+        for r in &s.required {
+            if c.contains(&r.cube) && !others.iter().any(|d| d.contains(&r.cube)) {
+                pieces.push(r.cube);
+            }
+        }
+        if pieces.is_empty() {
+            continue;
+        }
+        let mut sc = pieces[0];
+        for p in &pieces[1..] {
+            sc = sc.supercube(p);
+        }
+        f[i] = s.closure(&sc);
+    }
+}
+
+/// Lets outputs use each other's products where legal and larger, then drops what is
+/// redundant, so common products are shared.
+fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>]) {
+    let pool: Vec<Cube> = {
+        let mut p: Vec<Cube> = covers.iter().flatten().copied().collect();
+        p.sort();
+        p.dedup();
+        p
+    };
+    for (k, s) in specs.iter().enumerate() {
+        let mut f = covers[k].clone();
+        for d in f.iter_mut() {
+            if let Some(big) = pool.iter().find(|p| *p != d && p.contains(d) && s.legal(p)) {
+                *d = *big;
+            }
+        }
+        scc(&mut f);
+        irredundant(s, &mut f, s.adjacent_pairs);
+        covers[k] = f;
+    }
+}
+
+/// A lower bound on the products of one output: a greedy set of points and required
+/// cubes no two of which fit in one legal product.
+pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
+    let mut items: Vec<Cube> = s.required.iter().map(|r| r.cube).collect();
+    for (i, c) in cover.iter().enumerate() {
+        let mut rest: Vec<Cube> = cover
+            .iter()
+            .enumerate()
+            .filter(|&(k, _)| k != i)
+            .map(|(_, d)| *d)
+            .collect();
+        rest.extend_from_slice(&s.dc);
+        let only = sharp(&[*c], &rest);
+        let pick = only
+            .first()
+            .copied()
+            .or_else(|| s.on.iter().find_map(|o| o.intersection(c)));
+        if let Some(p) = pick {
+            items.push(Cube::from_words(crate::cube::mask(s.nvars), p.value_bits()));
+        }
+    }
+    items.sort_by_key(|c| std::cmp::Reverse(c.literal_count()));
+    items.dedup();
+    let mut chosen: Vec<Cube> = Vec::new();
+    for it in items {
+        // A point chosen from `only` may be a don't-care in rare cases: keep on-set only.
+        if it.literal_count() == s.nvars && !s.on.iter().any(|o| o.contains(&it)) {
+            continue;
+        }
+        if chosen
+            .iter()
+            .all(|c| !s.legal(&s.closure(&c.supercube(&it))))
+        {
+            chosen.push(it);
+        }
+    }
+    chosen.len()
+}

@@ -1,0 +1,6 @@
+//! Integration tests of the cover crate (one binary).
+
+mod checks;
+mod common;
+mod props;
+mod sympy;
