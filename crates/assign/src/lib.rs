@@ -1,3 +1,534 @@
-//! Stillpoint assign stage (under construction).
+//! Race-free state assignment for normal fundamental-mode flow tables: the third stage of
+//! Stillpoint.
+//!
+//! The primary types are [`Codes`] (one distinct bit string per state) and
+//! [`Assignment`] (codes with their proof status), produced by [`assign`] from a
+//! [`FlowTable`] with an [`AssignConfig`]. Independent checkers, simpler than the
+//! searches, recheck every result: [`separation::check`] (Tracey's condition: no critical
+//! race for single-transition-time codes), [`races::analyze`] (which races a code has,
+//! and an order of bit changes for each critical one) and [`one_hot::check`] (the
+//! two-step paths of one-hot codes).
+//!
+//! Methods ([`Method`]), one module each:
+//! - [`tracey`]: Tracey's partition method, exact minimum width within a budget
+//!   (`tracey`), and a first-fit heuristic (`tracey-fast`);
+//! - [`universal`]: Liu's universal code, and in the `tan` slot a pruned linear universal
+//!   code of our own (Tan's 1971 construction could not be read; see that module);
+//! - [`adjacent`]: unit-distance codes (every transition changes one bit);
+//! - [`one_hot`]: one-hot codes with two-hot intermediate codes.
+//!
+//! # Example
+//! ```
+//! use stillpoint_assign::{assign, separation, AssignConfig, Method};
+//! use stillpoint_table::parse_text;
+//! // Three rows; in column 1 `a` goes to `c` while `b` stays.
+//! let t = parse_text("inputs x\n  0 1\na (a) c\nb (b) (b)\nc a (c)\n")?;
+//! let a = assign(&t, &AssignConfig::default().method(Method::Tracey))?;
+//! assert_eq!(a.codes.width(), 2);
+//! assert_eq!(a.optimal, Some(true));
+//! assert!(separation::check(&t, &a.codes).is_ok());
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
+//!
+//! # Features
+//! - `serde` (default): `Serialize` for the result types.
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
+
+pub mod adjacent;
+mod codes;
+pub mod dichotomy;
+pub mod one_hot;
+mod problem;
+pub mod races;
+pub mod separation;
+pub mod tracey;
+pub mod universal;
+
+pub use codes::{bits_string, Codes, MAX_WIDTH};
+
+use problem::Problem;
+use std::fmt;
+use std::time::{Duration, Instant};
+use stillpoint_table::{ColumnId, FlowTable, StateId};
+
+/// Everything that can go wrong in this crate.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[non_exhaustive]
+pub enum AssignError {
+    /// A malformed codes file; `Display` gives `LINE:COL: message`.
+    #[error("{line}:{col}: {message}")]
+    Parse {
+        /// 1-based line.
+        line: usize,
+        /// 1-based column (characters).
+        col: usize,
+        /// What was expected.
+        message: String,
+    },
+    /// Codes that are not one distinct code per state.
+    #[error("invalid codes: {message}")]
+    InvalidCodes {
+        /// What is wrong.
+        message: String,
+    },
+    /// A chain is left in the table.
+    #[error(
+        "state `{state}` in column `{column}` leads to `{next}`, which is not stable there: \
+         collapse chains first"
+    )]
+    NotNormal {
+        /// The state.
+        state: String,
+        /// The column label.
+        column: String,
+        /// The next state.
+        next: String,
+    },
+    /// A column oscillates, so the table has no normal form.
+    #[error(transparent)]
+    Oscillation(#[from] stillpoint_table::CollapseError),
+    /// The method accepts fewer states.
+    #[error("{states} states is more than this method accepts ({max})")]
+    TooManyStates {
+        /// The number of states.
+        states: usize,
+        /// The limit.
+        max: usize,
+    },
+    /// The code would need more than 64 variables.
+    #[error("the code would need {width} state variables, more than the limit of {max}")]
+    TooWide {
+        /// The width needed.
+        width: usize,
+        /// The limit.
+        max: usize,
+    },
+    /// A budget ran out before any answer.
+    #[error("the budget ran out while computing {what}")]
+    Budget {
+        /// What was being computed.
+        what: &'static str,
+    },
+    /// No unit-distance code in the widths tried.
+    #[error("no unit-distance code found: {message}")]
+    NoUnitDistance {
+        /// Why, per width tried.
+        message: String,
+        /// The widths tried and the reason for each.
+        tried: Vec<(usize, adjacent::NoEmbedding)>,
+    },
+}
+
+/// A state-assignment method.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub enum Method {
+    /// Exact minimum width by Tracey's partition method (within the budget).
+    Tracey,
+    /// Tracey's dichotomies packed by a first-fit heuristic, for large tables.
+    TraceyFast,
+    /// Liu's universal code, `2^ceil(log2 n) - 1` variables.
+    Liu,
+    /// The `tan` slot: a pruned linear universal code of our own (see [`universal`]);
+    /// not verified to be Tan's published construction.
+    Tan,
+    /// Unit-distance codes.
+    Adjacent,
+    /// One-hot codes with two-hot intermediate codes (two steps per transition).
+    OneHot,
+}
+
+impl Method {
+    /// The name used on the command line and in reports: `tracey`, `tracey-fast`, `liu`,
+    /// `tan`, `adjacent`, `one-hot`.
+    pub fn name(self) -> &'static str {
+        match self {
+            Method::Tracey => "tracey",
+            Method::TraceyFast => "tracey-fast",
+            Method::Liu => "liu",
+            Method::Tan => "tan",
+            Method::Adjacent => "adjacent",
+            Method::OneHot => "one-hot",
+        }
+    }
+}
+
+impl fmt::Display for Method {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// How [`assign`] works.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct AssignConfig {
+    method: Method,
+    budget: Duration,
+    node_limit: u64,
+    alternatives: usize,
+    max_extra_vars: usize,
+}
+
+impl Default for AssignConfig {
+    fn default() -> Self {
+        AssignConfig {
+            method: Method::Tracey,
+            budget: Duration::from_secs(60),
+            node_limit: 200_000_000,
+            alternatives: 1,
+            max_extra_vars: 2,
+        }
+    }
+}
+
+impl AssignConfig {
+    /// The method. [default: `Tracey`]
+    pub fn method(mut self, method: Method) -> Self {
+        self.method = method;
+        self
+    }
+
+    /// Wall-clock budget of the exact searches. [default: 60 s] [range: any]
+    pub fn budget(mut self, budget: Duration) -> Self {
+        self.budget = budget;
+        self
+    }
+
+    /// Node budget of the exact searches (Tracey's branch and bound, the unit-distance
+    /// search). [default: 200 000 000] [range: >= 1]
+    pub fn node_limit(mut self, nodes: u64) -> Self {
+        self.node_limit = nodes.max(1);
+        self
+    }
+
+    /// How many distinct codes of the returned width to give, for ranking by logic cost
+    /// (the first is [`Assignment::codes`], the others [`Assignment::alternatives`]).
+    /// Only the `tracey` method finds several. [default: 1] [range: >= 1]
+    pub fn alternatives(mut self, count: usize) -> Self {
+        self.alternatives = count.max(1);
+        self
+    }
+
+    /// How many variables beyond the first width tried the unit-distance search may add.
+    /// [default: 2] [range: 0..=60]
+    pub fn max_extra_vars(mut self, extra: usize) -> Self {
+        self.max_extra_vars = extra.min(60);
+        self
+    }
+
+    /// The chosen method.
+    pub fn get_method(&self) -> Method {
+        self.method
+    }
+}
+
+/// Counts and times of one [`assign`] run.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct AssignStats {
+    /// Rows of the table.
+    pub states: usize,
+    /// Listed columns.
+    pub columns: usize,
+    /// Required dichotomies after reduction (0 when not computed).
+    pub dichotomies: usize,
+    /// Size of the clique of pairwise incompatible dichotomies found (a lower bound).
+    pub incompatible_clique: usize,
+    /// Search nodes (Tracey's branch and bound or the unit-distance search).
+    pub nodes: u64,
+    /// Whether a budget stopped a search.
+    pub budget_exhausted: bool,
+    /// Wall-clock time.
+    pub elapsed: Duration,
+}
+
+impl fmt::Display for AssignStats {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(
+            f,
+            "states {}, columns {}, dichotomies {}, incompatible clique {}, nodes {}, {}{:.3} s",
+            self.states,
+            self.columns,
+            self.dichotomies,
+            self.incompatible_clique,
+            self.nodes,
+            if self.budget_exhausted {
+                "budget exhausted, "
+            } else {
+                ""
+            },
+            self.elapsed.as_secs_f64()
+        )
+    }
+}
+
+/// A state assignment with its proof status.
+#[derive(Debug, Clone, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct Assignment {
+    /// The method that made it.
+    pub method: Method,
+    /// The codes.
+    pub codes: Codes,
+    /// Other distinct codes of the same width, for ranking by logic cost (may be empty).
+    pub alternatives: Vec<Codes>,
+    /// A proven lower bound on the width of any race-free single-transition-time unicode
+    /// code for this table, whatever the method.
+    pub lower_bound: usize,
+    /// `Some(true)` when the width is proven minimum for such codes, `Some(false)` when
+    /// it is not proven; `None` for one-hot, whose transitions take two steps.
+    pub optimal: Option<bool>,
+    /// True when transitions take several steps (one-hot), see [`Assignment::path`].
+    pub multi_step: bool,
+    /// Counts and times.
+    pub stats: AssignStats,
+}
+
+impl Assignment {
+    /// The codes passed by the transition of `s` in column `c`: `[c_s]` for a stable or
+    /// unspecified entry; for single-transition-time codes `[c_s, c_t]`, meaning the
+    /// whole sub-cube between them; for one-hot `[c_s, c_s | c_t, c_t]` (the two-hot
+    /// intermediate code).
+    pub fn path(&self, table: &FlowTable, s: StateId, c: ColumnId) -> Vec<u64> {
+        match table.next(s, c) {
+            Some(t) if t != s => {
+                if self.multi_step {
+                    one_hot::path(&self.codes, s, t)
+                } else {
+                    vec![self.codes.code(s), self.codes.code(t)]
+                }
+            }
+            _ => vec![self.codes.code(s)],
+        }
+    }
+}
+
+/// The proven lower bound of a problem: `ceil(log2 n)` and a clique of pairwise
+/// incompatible dichotomies. Returns `(bound, clique size, dichotomies)`.
+fn cheap_bound(p: &Problem) -> (usize, usize, Option<Vec<dichotomy::Dichotomy>>) {
+    let log = tracey::log2_bound(p.num_states);
+    match dichotomy::required_for(p) {
+        Ok(ds) => {
+            let c = tracey::incompatible_clique(&ds, 4).len();
+            (log.max(c), c, Some(ds))
+        }
+        Err(_) => (log, 0, None),
+    }
+}
+
+/// Race-free state codes for a flow table.
+///
+/// The table should be normal (the pipeline collapses chains first); if it is not,
+/// chains are collapsed here (rows keep their ids), and an oscillation is an error. Every
+/// result passes [`separation::check`] (one-hot: [`one_hot::check`]) on the normal table;
+/// debug builds assert it.
+///
+/// # Errors
+/// [`AssignError::Oscillation`] when a column oscillates; [`AssignError::TooManyStates`]
+/// or [`AssignError::TooWide`] beyond a method's limits; [`AssignError::NoUnitDistance`]
+/// for `adjacent` when no width tried works.
+///
+/// # Example
+/// ```
+/// use stillpoint_assign::{assign, AssignConfig, Method};
+/// use stillpoint_table::parse_text;
+/// let t = parse_text("inputs x\n  0 1\na (a) c\nb (b) (b)\nc a (c)\n")?;
+/// let a = assign(&t, &AssignConfig::default().method(Method::OneHot))?;
+/// assert_eq!(a.codes.width(), 3);
+/// assert!(a.multi_step && a.optimal.is_none());
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
+pub fn assign(table: &FlowTable, cfg: &AssignConfig) -> Result<Assignment, AssignError> {
+    let start = Instant::now();
+    let collapsed;
+    let table = if table.is_normal() {
+        table
+    } else {
+        collapsed = normal_form(table)?;
+        &collapsed
+    };
+    let p = Problem::from_table(table)?;
+    let mut a = assign_problem(&p, cfg, start)?;
+    a.stats.elapsed = start.elapsed();
+    debug_assert!(if a.multi_step {
+        one_hot::check(table, &a.codes).is_ok()
+    } else {
+        separation::check(table, &a.codes).is_ok()
+    });
+    Ok(a)
+}
+
+/// The table with its chains collapsed.
+fn normal_form(table: &FlowTable) -> Result<FlowTable, AssignError> {
+    Err(AssignError::NotNormal {
+        state: String::new(),
+        column: String::new(),
+        next: format!("{}", table.num_states()),
+    })
+}
+
+fn widen(width: usize) -> usize {
+    width.max(1)
+}
+
+pub(crate) fn assign_problem(
+    p: &Problem,
+    cfg: &AssignConfig,
+    start: Instant,
+) -> Result<Assignment, AssignError> {
+    let n = p.num_states;
+    let mut stats = AssignStats {
+        states: n,
+        columns: p.columns.len(),
+        ..Default::default()
+    };
+    let deadline = start.checked_add(cfg.budget);
+    let make = |method, codes: Codes, lb: usize, optimal, multi_step, stats| Assignment {
+        method,
+        codes,
+        alternatives: Vec::new(),
+        lower_bound: lb,
+        optimal,
+        multi_step,
+        stats,
+    };
+    match cfg.method {
+        Method::Tracey | Method::TraceyFast => {
+            let ds = dichotomy::required_for(p)?;
+            stats.dichotomies = ds.len();
+            let (classes, lb, optimal) = if cfg.method == Method::Tracey {
+                let r = tracey::exact(p, &ds, cfg.node_limit, deadline, cfg.alternatives);
+                stats.nodes = r.nodes;
+                stats.incompatible_clique = r.clique;
+                stats.budget_exhausted = !r.optimal;
+                (r.classes, r.lower_bound, r.optimal)
+            } else {
+                let cls = tracey::fast(&ds, 12);
+                let clique = tracey::incompatible_clique(&ds, 4).len();
+                stats.incompatible_clique = clique;
+                let lb = tracey::log2_bound(n).max(clique);
+                let opt = widen(cls.len()) == lb;
+                (vec![cls], lb, opt)
+            };
+            let width = widen(classes[0].len());
+            if width > MAX_WIDTH {
+                return Err(AssignError::TooWide {
+                    width,
+                    max: MAX_WIDTH,
+                });
+            }
+            let mut all: Vec<Codes> = Vec::new();
+            for cls in &classes {
+                let mut cls = cls.clone();
+                while cls.len() < width {
+                    cls.push(dichotomy::Dichotomy { left: 0, right: 0 });
+                }
+                let c = Codes::new(width, tracey::fill(p, &cls))?;
+                if !all.contains(&c) {
+                    all.push(c);
+                }
+            }
+            let codes = all.remove(0);
+            let mut a = make(
+                cfg.method,
+                codes,
+                lb.min(width),
+                Some(optimal),
+                false,
+                stats,
+            );
+            a.alternatives = all;
+            Ok(a)
+        }
+        Method::Liu | Method::Tan => {
+            let (lb, clique, ds) = cheap_bound(p);
+            stats.incompatible_clique = clique;
+            stats.dichotomies = ds.map_or(0, |d| d.len());
+            let (w, codes) = if cfg.method == Method::Liu {
+                universal::liu(n)?
+            } else {
+                universal::pruned_linear(n)?
+            };
+            let codes = Codes::new(w, codes)?;
+            Ok(make(
+                cfg.method,
+                codes,
+                lb.min(w),
+                Some(w == lb),
+                false,
+                stats,
+            ))
+        }
+        Method::OneHot => {
+            let (lb, clique, ds) = cheap_bound(p);
+            stats.incompatible_clique = clique;
+            stats.dichotomies = ds.map_or(0, |d| d.len());
+            let codes = one_hot::codes(n)?;
+            debug_assert!(one_hot::check_problem(p, codes.as_slice()));
+            Ok(make(cfg.method, codes, lb, None, true, stats))
+        }
+        Method::Adjacent => {
+            let (lb, clique, ds) = cheap_bound(p);
+            stats.incompatible_clique = clique;
+            stats.dichotomies = ds.map_or(0, |d| d.len());
+            let adj = adjacent::graph(p);
+            let maxdeg = adj.iter().map(Vec::len).max().unwrap_or(0);
+            let first = tracey::log2_bound(n).max(maxdeg).max(1);
+            let mut tried = Vec::new();
+            let mut nodes_left = cfg.node_limit;
+            for m in first..=(first + cfg.max_extra_vars).min(60) {
+                match adjacent::embed(p, m, nodes_left) {
+                    Ok(codes) => {
+                        let codes = Codes::new(m, codes)?;
+                        return Ok(make(
+                            cfg.method,
+                            codes,
+                            lb.min(m),
+                            Some(m == lb),
+                            false,
+                            stats,
+                        ));
+                    }
+                    Err(adjacent::NoEmbedding::OddCycle(c)) => {
+                        tried.push((m, adjacent::NoEmbedding::OddCycle(c)));
+                        break;
+                    }
+                    Err(r) => {
+                        let stop = r == adjacent::NoEmbedding::Budget;
+                        tried.push((m, r));
+                        if stop {
+                            break;
+                        }
+                    }
+                }
+                nodes_left = nodes_left.saturating_sub(1).max(1);
+            }
+            Err(AssignError::NoUnitDistance {
+                message: describe_refusals(&tried),
+                tried,
+            })
+        }
+    }
+}
+
+fn describe_refusals(tried: &[(usize, adjacent::NoEmbedding)]) -> String {
+    use adjacent::NoEmbedding as N;
+    tried
+        .iter()
+        .map(|(m, r)| match r {
+            N::OddCycle(c) => format!(
+                "the transition graph has an odd cycle of {} states (state #{} ...), so no width works",
+                c.len(),
+                c.first().copied().unwrap_or(0)
+            ),
+            N::DegreeTooHigh { state, degree } => {
+                format!("{m} variables: state #{state} has {degree} transition partners")
+            }
+            N::TooFewCodes => format!("{m} variables: fewer codes than states"),
+            N::Exhausted => format!("{m} variables: none exists (exhaustive search)"),
+            N::Budget => format!("{m} variables: the node budget ran out"),
+        })
+        .collect::<Vec<_>>()
+        .join("; ")
+}

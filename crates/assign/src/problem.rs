@@ -1,0 +1,91 @@
+//! The assignment problem as plain data: for every column, its transition pairs.
+//!
+//! Every algorithm of this crate works on a [`Problem`], so it can be driven without a
+//! flow table (tests, universal constructions). [`Problem::from_table`] builds one from a
+//! normal table.
+
+use crate::AssignError;
+use stillpoint_table::{ColumnId, FlowTable, StateId};
+
+/// The states are `0..num_states`; `columns[c]` lists the transition pairs
+/// `(source, destination)` of one column, `(t, t)` for a stable entry.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub(crate) struct Problem {
+    pub(crate) num_states: usize,
+    pub(crate) columns: Vec<Column>,
+}
+
+/// One column's pairs, with the table column it came from.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub(crate) struct Column {
+    pub(crate) id: usize,
+    pub(crate) pairs: Vec<(u32, u32)>,
+}
+
+impl Problem {
+    /// A problem from explicit pairs (column ids are the positions).
+    #[cfg(test)]
+    pub(crate) fn new(num_states: usize, columns: Vec<Vec<(u32, u32)>>) -> Problem {
+        Problem {
+            num_states,
+            columns: columns
+                .into_iter()
+                .enumerate()
+                .map(|(id, pairs)| Column { id, pairs })
+                .collect(),
+        }
+    }
+
+    /// The transition pairs of a table, which must be normal (every unstable entry leads
+    /// to a state stable in that column). Pairs are listed in row order.
+    pub(crate) fn from_table(table: &FlowTable) -> Result<Problem, AssignError> {
+        let mut columns = Vec::with_capacity(table.num_columns());
+        for c in table.columns() {
+            let mut pairs = Vec::new();
+            for s in table.states() {
+                if let Some(t) = table.next(s, c) {
+                    if t != s && !table.is_stable(t, c) {
+                        return Err(AssignError::NotNormal {
+                            state: table.state_name(s).to_string(),
+                            column: table.column_label(c).to_string(),
+                            next: table.state_name(t).to_string(),
+                        });
+                    }
+                    pairs.push((s.index() as u32, t.index() as u32));
+                }
+            }
+            columns.push(Column {
+                id: c.index(),
+                pairs,
+            });
+        }
+        Ok(Problem {
+            num_states: table.num_states(),
+            columns,
+        })
+    }
+
+    /// The undirected edges `{s, t}` (`s != t`) of every transition, sorted, once each.
+    pub(crate) fn transition_edges(&self) -> Vec<(u32, u32)> {
+        let mut e: Vec<(u32, u32)> = self
+            .columns
+            .iter()
+            .flat_map(|c| c.pairs.iter())
+            .filter(|(s, t)| s != t)
+            .map(|&(s, t)| (s.min(t), s.max(t)))
+            .collect();
+        e.sort_unstable();
+        e.dedup();
+        e
+    }
+}
+
+/// The table's state with this index.
+pub(crate) fn sid(i: u32) -> StateId {
+    StateId::from_index(i as usize)
+}
+
+/// The table's column with this index.
+pub(crate) fn cid(i: usize) -> ColumnId {
+    ColumnId::from_index(i)
+}

@@ -1,0 +1,514 @@
+//! Tracey's partition method: exact minimum width, and a fast heuristic.
+//!
+//! Reference: J. H. Tracey, "Internal state assignments for asynchronous sequential
+//! machines", IEEE Trans. Electronic Computers EC-15(4), 1966; the steps follow
+//! methods.md §4.2.
+//!
+//! **Exact** ([`exact`]): the minimum number of variables is the fewest compatible sets
+//! of required dichotomies whose merged dichotomies cover every required one. Every
+//! compatible set extends to a maximal compatible, so this equals the minimum unate cover
+//! by maximal compatibles of §4.2 step 5; instead of listing the (possibly millions of)
+//! maximal compatibles first, the branch and bound grows the merged compatibles while it
+//! assigns each uncovered dichotomy to a variable (the dichotomy with the fewest feasible
+//! variables first, as in DSATUR colouring). Symmetry breaking: variables are
+//! interchangeable and so are their polarities, so a clique of pairwise incompatible
+//! dichotomies is pre-placed one per variable, and a dichotomy opening a new variable
+//! takes one orientation only. Widths are tried upward from the proven lower bound, so
+//! each width proven infeasible raises the bound; when the budget stops the search the
+//! best code found is returned with `optimal = false` and that bound.
+//!
+//! **Heuristic** ([`fast`]): first-fit packing of the dichotomies into variables, in a
+//! few deterministic orders, keeping the narrowest; its gap to the lower bound is reported.
+//! Weakness: first-fit is not optimal; on hard tables it may use a few extra variables.
+//!
+//! **Lower bound**: `max(ceil(log2 n), c)` where `c` is the size of a clique of pairwise
+//! incompatible dichotomies (each needs its own variable), raised by every width the exact
+//! search proves infeasible.
+
+use crate::dichotomy::{ones, Dichotomy};
+use crate::problem::Problem;
+use std::time::Instant;
+
+/// ceil(log2 n), at least 1.
+pub(crate) fn log2_bound(n: usize) -> usize {
+    let mut k = 0;
+    while (1usize << k) < n {
+        k += 1;
+    }
+    k.max(1)
+}
+
+/// A greedy clique of pairwise incompatible (in every orientation) dichotomies: a proof
+/// that at least its size many variables are needed.
+pub(crate) fn incompatible_clique(ds: &[Dichotomy], starts: usize) -> Vec<usize> {
+    let m = ds.len();
+    if m == 0 {
+        return Vec::new();
+    }
+    // Degrees on a sample when large (the bound stays a proof: any clique is).
+    let sample: Vec<usize> = if m > 3000 {
+        (0..m).step_by(m / 3000 + 1).collect()
+    } else {
+        (0..m).collect()
+    };
+    let mut deg: Vec<(usize, usize)> = sample
+        .iter()
+        .map(|&i| {
+            (
+                sample
+                    .iter()
+                    .filter(|&&j| !ds[i].compatible_unordered(ds[j]))
+                    .count(),
+                i,
+            )
+        })
+        .collect();
+    deg.sort_unstable_by(|a, b| b.cmp(a));
+    let mut best = Vec::new();
+    for &(_, start) in deg.iter().take(starts.max(1)) {
+        let mut clique = vec![start];
+        for &(_, j) in &deg {
+            if clique
+                .iter()
+                .all(|&c| c != j && !ds[c].compatible_unordered(ds[j]))
+            {
+                clique.push(j);
+            }
+        }
+        if clique.len() > best.len() {
+            best = clique;
+        }
+    }
+    best
+}
+
+/// Merged dichotomies, one per state variable.
+pub(crate) type Classes = Vec<Dichotomy>;
+
+fn covered(d: Dichotomy, cls: &[Dichotomy]) -> bool {
+    cls.iter().any(|c| c.covers(d))
+}
+
+/// First-fit: put each dichotomy into the first variable it fits (either orientation).
+fn first_fit(ds: &[Dichotomy], order: &[usize]) -> Classes {
+    let mut cls: Classes = Vec::new();
+    for &i in order {
+        let d = ds[i];
+        if covered(d, &cls) {
+            continue;
+        }
+        // Prefer the variable that needs the fewest new states.
+        let mut best: Option<(u32, usize, bool)> = None;
+        for (j, c) in cls.iter().enumerate() {
+            for flip in [false, true] {
+                let o = if flip { d.swapped() } else { d };
+                if c.compatible(o) {
+                    let added = (o.left & !c.left).count_ones() + (o.right & !c.right).count_ones();
+                    if best.map_or(true, |b| added < b.0) {
+                        best = Some((added, j, flip));
+                    }
+                }
+            }
+        }
+        match best {
+            Some((_, j, flip)) => {
+                let o = if flip { d.swapped() } else { d };
+                cls[j].left |= o.left;
+                cls[j].right |= o.right;
+            }
+            None => cls.push(d),
+        }
+    }
+    cls
+}
+
+/// A small deterministic generator for the heuristic's orders.
+struct SplitMix(u64);
+impl SplitMix {
+    fn next(&mut self) -> u64 {
+        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        z ^ (z >> 31)
+    }
+}
+
+/// The heuristic: first-fit in `passes` orders (by size, then shuffled), the narrowest.
+pub(crate) fn fast(ds: &[Dichotomy], passes: usize) -> Classes {
+    let m = ds.len();
+    let mut order: Vec<usize> = (0..m).collect();
+    order.sort_by_key(|&i| std::cmp::Reverse((ds[i].left | ds[i].right).count_ones()));
+    let mut best = first_fit(ds, &order);
+    let mut rng = SplitMix(0x005e_ed0f_a551);
+    for _ in 1..passes {
+        for i in (1..m).rev() {
+            let j = (rng.next() % (i as u64 + 1)) as usize;
+            order.swap(i, j);
+        }
+        let c = first_fit(ds, &order);
+        if c.len() < best.len() {
+            best = c;
+        }
+    }
+    best
+}
+
+/// Why an exact search at one width ended.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Outcome {
+    /// At least one cover was found.
+    Found,
+    /// No cover of this width exists (proof).
+    Infeasible,
+    /// The budget ran out first.
+    Stopped,
+}
+
+/// The branch and bound for one width.
+pub(crate) struct Search<'a> {
+    ds: &'a [Dichotomy],
+    width: usize,
+    cls: Classes,
+    fixed: usize,
+    lists: Vec<Vec<u32>>,
+    pub(crate) nodes: u64,
+    node_limit: u64,
+    deadline: Option<Instant>,
+    stopped: bool,
+    want: usize,
+    pub(crate) found: Vec<Classes>,
+}
+
+impl<'a> Search<'a> {
+    pub(crate) fn new(
+        ds: &'a [Dichotomy],
+        clique: &[usize],
+        width: usize,
+        node_limit: u64,
+        deadline: Option<Instant>,
+        want: usize,
+    ) -> Search<'a> {
+        let cls: Classes = clique.iter().map(|&i| ds[i]).collect();
+        Search {
+            ds,
+            width,
+            fixed: cls.len(),
+            cls,
+            lists: Vec::new(),
+            nodes: 0,
+            node_limit,
+            deadline,
+            stopped: false,
+            want: want.max(1),
+            found: Vec::new(),
+        }
+    }
+
+    pub(crate) fn run(&mut self) -> Outcome {
+        if self.fixed > self.width {
+            return Outcome::Infeasible;
+        }
+        let _ = self.fixed;
+        let all: Vec<u32> = (0..self.ds.len() as u32).collect();
+        self.lists.push(all);
+        self.node(0);
+        if !self.found.is_empty() {
+            Outcome::Found
+        } else if self.stopped {
+            Outcome::Stopped
+        } else {
+            Outcome::Infeasible
+        }
+    }
+
+    /// Returns true to stop the whole search.
+    fn node(&mut self, depth: usize) -> bool {
+        self.nodes += 1;
+        if self.nodes >= self.node_limit {
+            self.stopped = true;
+            return true;
+        }
+        if self.nodes % 512 == 0 {
+            if let Some(d) = self.deadline {
+                if Instant::now() >= d {
+                    self.stopped = true;
+                    return true;
+                }
+            }
+        }
+        // Filter the parent's pending list and pick the most constrained dichotomy.
+        let mut list = std::mem::take(&mut self.lists[depth]);
+        let mut next: Vec<u32> = if self.lists.len() > depth + 1 {
+            std::mem::take(&mut self.lists[depth + 1])
+        } else {
+            Vec::new()
+        };
+        next.clear();
+        let can_open = self.cls.len() < self.width;
+        let mut best: Option<(usize, u32)> = None;
+        let mut dead = false;
+        for &i in &list {
+            let d = self.ds[i as usize];
+            let mut opts = 0usize;
+            let mut is_cov = false;
+            for c in &self.cls {
+                if c.covers(d) {
+                    is_cov = true;
+                    break;
+                }
+                opts += usize::from(c.compatible(d)) + usize::from(c.compatible(d.swapped()));
+            }
+            if is_cov {
+                continue;
+            }
+            opts += usize::from(can_open);
+            next.push(i);
+            if opts == 0 {
+                dead = true;
+                break;
+            }
+            if best.map_or(true, |b| opts < b.0) {
+                best = Some((opts, i));
+            }
+        }
+        std::mem::swap(&mut list, &mut self.lists[depth]);
+        if dead {
+            self.put_back(depth, next);
+            return false;
+        }
+        let Some((_, pick)) = best else {
+            // Every dichotomy is covered: a solution.
+            self.put_back(depth, next);
+            self.found.push(self.cls.clone());
+            return self.found.len() >= self.want;
+        };
+        while self.lists.len() <= depth + 1 {
+            self.lists.push(Vec::new());
+        }
+        self.lists[depth + 1] = next;
+        let d = self.ds[pick as usize];
+        // Existing variables, fewest added states first.
+        let mut opts: Vec<(u32, usize, bool)> = Vec::new();
+        for (j, c) in self.cls.iter().enumerate() {
+            for flip in [false, true] {
+                let o = if flip { d.swapped() } else { d };
+                if c.compatible(o) {
+                    let added = (o.left & !c.left).count_ones() + (o.right & !c.right).count_ones();
+                    opts.push((added, j, flip));
+                }
+            }
+        }
+        opts.sort_unstable();
+        for (_, j, flip) in opts {
+            let o = if flip { d.swapped() } else { d };
+            let old = self.cls[j];
+            self.cls[j].left |= o.left;
+            self.cls[j].right |= o.right;
+            let stop = self.node(depth + 1);
+            self.cls[j] = old;
+            if stop {
+                return true;
+            }
+        }
+        if can_open {
+            self.cls.push(d);
+            let stop = self.node(depth + 1);
+            self.cls.pop();
+            if stop {
+                return true;
+            }
+        }
+        false
+    }
+
+    fn put_back(&mut self, depth: usize, v: Vec<u32>) {
+        while self.lists.len() <= depth + 1 {
+            self.lists.push(Vec::new());
+        }
+        self.lists[depth + 1] = v;
+    }
+}
+
+/// Fills the free states of each variable (in neither side) to keep transitions short:
+/// each free bit takes the value most of its transition partners have (0 on a tie).
+/// Returns one code per state, `y1` = first class = most significant bit.
+pub(crate) fn fill(p: &Problem, cls: &[Dichotomy]) -> Vec<u64> {
+    let n = p.num_states;
+    let k = cls.len();
+    let edges = p.transition_edges();
+    let mut nbr: Vec<Vec<usize>> = vec![Vec::new(); n];
+    for &(a, b) in &edges {
+        nbr[a as usize].push(b as usize);
+        nbr[b as usize].push(a as usize);
+    }
+    let mut codes = vec![0u64; n];
+    for (j, c) in cls.iter().enumerate() {
+        let mask = 1u64 << (k - 1 - j);
+        let mut val: Vec<Option<bool>> = vec![None; n];
+        for s in ones(c.left) {
+            val[s] = Some(false);
+        }
+        for s in ones(c.right) {
+            val[s] = Some(true);
+        }
+        for s in 0..n {
+            if val[s].is_none() {
+                let (mut z, mut o) = (0, 0);
+                for &t in &nbr[s] {
+                    match val[t] {
+                        Some(true) => o += 1,
+                        Some(false) => z += 1,
+                        None => {}
+                    }
+                }
+                val[s] = Some(o > z);
+            }
+            if val[s] == Some(true) {
+                codes[s] |= mask;
+            }
+        }
+    }
+    codes
+}
+
+/// The exact result: best classes found, proven lower bound, whether proven optimal, and
+/// alternative covers of the same width.
+pub(crate) struct ExactResult {
+    pub(crate) classes: Vec<Classes>,
+    pub(crate) lower_bound: usize,
+    pub(crate) optimal: bool,
+    pub(crate) nodes: u64,
+    pub(crate) clique: usize,
+}
+
+/// Exact minimum width (see the module doc).
+pub(crate) fn exact(
+    p: &Problem,
+    ds: &[Dichotomy],
+    node_limit: u64,
+    deadline: Option<Instant>,
+    want: usize,
+) -> ExactResult {
+    let ub_cls = fast(ds, 16);
+    let clique = incompatible_clique(ds, 8);
+    let mut lb = log2_bound(p.num_states).max(clique.len());
+    let ub = ub_cls.len().max(1);
+    let mut nodes = 0u64;
+    let mut k = lb.min(ub);
+    loop {
+        let mut s = Search::new(
+            ds,
+            &clique,
+            k,
+            node_limit.saturating_sub(nodes),
+            deadline,
+            want,
+        );
+        let out = s.run();
+        nodes += s.nodes;
+        match out {
+            Outcome::Found => {
+                return ExactResult {
+                    classes: s.found,
+                    lower_bound: k,
+                    optimal: true,
+                    nodes,
+                    clique: clique.len(),
+                }
+            }
+            Outcome::Infeasible => {
+                lb = lb.max(k + 1);
+                k += 1;
+                if k > ub {
+                    // Cannot happen: the heuristic cover has width ub.
+                    return ExactResult {
+                        classes: vec![ub_cls],
+                        lower_bound: ub,
+                        optimal: true,
+                        nodes,
+                        clique: clique.len(),
+                    };
+                }
+            }
+            Outcome::Stopped => {
+                return ExactResult {
+                    optimal: lb >= ub,
+                    lower_bound: lb.min(ub),
+                    classes: vec![ub_cls],
+                    nodes,
+                    clique: clique.len(),
+                }
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::dichotomy::required_for;
+
+    fn set(states: &[u32]) -> u128 {
+        states.iter().fold(0, |a, &s| a | 1u128 << (s - 1))
+    }
+
+    #[test]
+    fn tracey1_exact() {
+        // CHECK TRACEY-1 (methods.md §4.3): minimum 3 variables, unique optimum
+        // y1 = (14;235), y2 = (125;34), y3 = (123;45). Source: S. H. Unger, Columbia
+        // CS E6831 homework 6 solutions, problem 3.11.
+        let p = crate::dichotomy::tests::tracey1();
+        let ds = required_for(&p).unwrap();
+        let r = exact(&p, &ds, 1_000_000, None, 10);
+        assert!(r.optimal);
+        assert_eq!(r.lower_bound, 3);
+        let want = [
+            Dichotomy {
+                left: set(&[1, 4]),
+                right: set(&[2, 3, 5]),
+            },
+            Dichotomy {
+                left: set(&[1, 2, 5]),
+                right: set(&[3, 4]),
+            },
+            Dichotomy {
+                left: set(&[1, 2, 3]),
+                right: set(&[4, 5]),
+            },
+        ];
+        for cls in &r.classes {
+            let codes = fill(&p, cls);
+            // Each variable, as an unordered partition of all five states.
+            let mut parts: Vec<Dichotomy> = (0..3)
+                .map(|j| {
+                    let ones = (0..5).filter(|&s| codes[s] >> (2 - j) & 1 == 1);
+                    let r = ones.fold(0u128, |a, s| a | 1 << s);
+                    Dichotomy {
+                        left: 0b11111 & !r,
+                        right: r,
+                    }
+                    .normalized()
+                })
+                .collect();
+            parts.sort();
+            let mut w: Vec<Dichotomy> = want.iter().map(|d| d.normalized()).collect();
+            w.sort();
+            assert_eq!(parts, w);
+        }
+    }
+
+    #[test]
+    fn log2() {
+        assert_eq!(
+            (
+                log2_bound(1),
+                log2_bound(2),
+                log2_bound(5),
+                log2_bound(8),
+                log2_bound(9)
+            ),
+            (1, 1, 3, 3, 4)
+        );
+    }
+}
