@@ -39,6 +39,8 @@ pub mod ids;
 pub mod json;
 pub mod reduce;
 pub mod table;
+#[cfg(feature = "testing")]
+pub mod testing;
 pub mod text;
 pub mod unger;
 pub mod verify;
