@@ -54,6 +54,9 @@ pub enum TableError {
     /// No state was given.
     #[error("a flow table needs at least one state")]
     NoStates,
+    /// No column was listed.
+    #[error("a flow table needs at least one listed column")]
+    NoColumns,
     /// More states than [`crate::limits::MAX_STATES`].
     #[error("too many states: {count} (at most {max})")]
     TooManyStates {

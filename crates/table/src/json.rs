@@ -194,6 +194,9 @@ pub fn parse_json(src: &str) -> Result<FlowTable, ParseError> {
         }
         columns.push(crate::table::value_of(s).unwrap_or(0));
     }
+    if columns.is_empty() {
+        return Err(at(cv.pos, "expected at least one column label"));
+    }
     let nc = columns.len();
     let ns = states.len();
     if ns.saturating_mul(nc) > limits::MAX_ENTRIES {

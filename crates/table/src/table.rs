@@ -202,6 +202,9 @@ pub(crate) fn check_sizes(
     if states == 0 {
         return Err(TableError::NoStates);
     }
+    if columns == 0 {
+        return Err(TableError::NoColumns);
+    }
     if states > limits::MAX_STATES {
         return Err(TableError::TooManyStates {
             count: states,

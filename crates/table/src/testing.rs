@@ -116,6 +116,9 @@ pub fn random_table(
     let ni = 1 + r.below(max_inputs.clamp(1, 8));
     let k = r.below(max_outputs + 1);
     let mut cols: Vec<u32> = (0..1u32 << ni).filter(|_| r.chance(75)).collect();
+    if cols.is_empty() {
+        cols.push(r.below(1 << ni) as u32);
+    }
     // shuffle the listed order
     for i in (1..cols.len()).rev() {
         let j = r.below(i + 1);
