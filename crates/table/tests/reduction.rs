@@ -13,6 +13,7 @@ use varisat::{ExtendFormula, Lit, Solver};
 /// `j`) and `y[j][c][i]` (the next states of class `j`'s members in column `c` all lie in
 /// class `i`). This is the definition of a closed cover (methods.md §2.1; Unger's
 /// Columbia notes on covers) encoded directly.
+#[allow(clippy::needless_range_loop)]
 pub(crate) fn closed_cover_exists(t: &FlowTable, k: usize) -> bool {
     let n = t.num_states();
     let mut solver = Solver::new();
