@@ -67,7 +67,7 @@ fn name_list(v: &Value, kind: &str, max: usize) -> Result<Vec<String>, ParseErro
         }
         if out.len() == max {
             return Err(at(
-                e.pos,
+                v.pos,
                 format!("too many {kind}s: at most {max} are supported"),
             ));
         }
@@ -227,7 +227,7 @@ pub fn parse_json(src: &str) -> Result<FlowTable, ParseError> {
                     return Err(at(
                         v.pos,
                         format!(
-                            "unknown reset state `{}`: expected one of `states`",
+                            "unknown state `{}` named by `reset`: expected one of `states`",
                             show(s)
                         ),
                     ))

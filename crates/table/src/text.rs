@@ -174,7 +174,7 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                         }
                         if names.len() == max {
                             return Err(err(
-                                a,
+                                &first,
                                 format!("too many {kind}s: at most {max} are supported"),
                             ));
                         }
@@ -262,28 +262,8 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                     ));
                 }
                 let entries = &toks[1..];
-                if entries.len() != nc {
-                    let hint = if DIRECTIVES.contains(&first.text) {
-                        " (directives must come before the column header)"
-                    } else {
-                        ""
-                    };
-                    let at = if entries.len() > nc {
-                        entries[nc]
-                    } else {
-                        first
-                    };
-                    return Err(err(
-                        &at,
-                        format!(
-                            "row `{}` has {} entries, expected {nc} (one per column){hint}",
-                            show(first.text),
-                            entries.len()
-                        ),
-                    ));
-                }
                 let row = states.len();
-                for e in entries {
+                for e in entries.iter().take(nc) {
                     let (left, right) = match e.text.find('/') {
                         Some(p) => (&e.text[..p], Some(&e.text[p + 1..])),
                         None => (e.text, None),
@@ -295,6 +275,13 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                     } else {
                         (Some(left), false)
                     };
+                    if left.starts_with('(') && !left.ends_with(')') {
+                        return Err(ParseError::new(
+                            e.line,
+                            e.col,
+                            "expected `)` to close the stable entry",
+                        ));
+                    }
                     match nm {
                         Some(n) if is_valid_name(n) => next_pending.push(Pending {
                             slot: next_slots.len(),
@@ -340,12 +327,43 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                         }
                     }
                 }
+                if entries.len() != nc {
+                    let hint = if DIRECTIVES.contains(&first.text) {
+                        " (directives must come before the column header)"
+                    } else {
+                        ""
+                    };
+                    let last = toks[toks.len() - 1];
+                    let (line, col) = if !hint.is_empty() {
+                        (first.line, first.col)
+                    } else if entries.len() > nc {
+                        (entries[nc].line, entries[nc].col)
+                    } else {
+                        (last.line, last.col + last.text.chars().count())
+                    };
+                    return Err(ParseError::new(
+                        line,
+                        col,
+                        format!(
+                            "row `{}` has {} entries, expected {nc} (one per column){hint}",
+                            show(first.text),
+                            entries.len()
+                        ),
+                    ));
+                }
                 state_idx.insert(first.text, row);
                 states.push(first.text.to_string());
             }
         }
     }
-    let eof = |msg: &str| ParseError::new(last_line.max(1), last_len + 1, msg);
+    let ends_nl = src.is_empty() || src.ends_with('\n');
+    let eof = |msg: &str| {
+        if ends_nl {
+            ParseError::new(last_line + 1, 1, msg)
+        } else {
+            ParseError::new(last_line.max(1), last_len + 1, msg)
+        }
+    };
     let cols = match columns {
         Some(c) => c,
         None => {
@@ -389,7 +407,7 @@ pub fn parse_text(src: &str) -> Result<FlowTable, ParseError> {
                 return Err(err(
                     &r,
                     format!(
-                        "unknown reset state `{}`: expected the name of a row",
+                        "unknown state `{}` named by `reset`: expected the name of a row",
                         show(r.text)
                     ),
                 ))
@@ -550,11 +568,11 @@ mod tests {
         let (l, c, m) = e("inputs a a\n 00\np -\n");
         assert_eq!((l, c), (1, 10), "{m}");
         let (l, _, m) = e("inputs a\n 0\n");
-        assert_eq!(l, 2, "{m}");
+        assert_eq!(l, 3, "{m}"); // just past the end of the file
         let (l, c, m) = e("outputs z\n 0\np -\n");
         assert_eq!((l, c), (2, 2), "{m}");
         let (_, _, m) = e("inputs a\nreset x\n 0\np -\n");
-        assert!(m.contains("unknown reset state"), "{m}");
+        assert!(m.contains("unknown state `x` named by `reset`"), "{m}");
         let many: String = (0..17).map(|i| format!(" i{i}")).collect();
         let (l, c, m) = e(&format!("inputs{many}\n"));
         assert_eq!(l, 1);

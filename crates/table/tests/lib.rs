@@ -4,3 +4,5 @@
 mod roundtrip;
 // the reducer against the closed-cover and reduction checkers and a SAT formulation
 mod reduction;
+// the corpus of tests/data through check and reduce
+mod corpus;
