@@ -28,7 +28,7 @@
 //!
 //! # Features
 //! - `serde` (default): `Serialize`/`Deserialize` for the id types and [`OutBit`].
-//! - `testing`: the [`testing`] module with random-table generators and `proptest`
+//! - `testing`: the `testing` module with random-table generators and `proptest`
 //!   strategies, for this and downstream crates' tests.
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]

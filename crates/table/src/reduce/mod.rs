@@ -2,12 +2,12 @@
 //! minimum closed cover.
 //!
 //! Steps (each in its own module, named for its method):
-//! 1. [pair chart](paull_unger) with worklist propagation (Paull & Unger 1959);
-//! 2. maximal compatibles as maximal cliques ([Bron–Kerbosch](bron_kerbosch) with
+//! 1. pair chart (module `paull_unger`) with worklist propagation (Paull & Unger 1959);
+//! 2. maximal compatibles as maximal cliques (Bron–Kerbosch (module `bron_kerbosch`) with
 //!    pivoting, bitsets);
-//! 3. [prime compatibles](grasselli_luccio) (Grasselli & Luccio 1965, every compatible
+//! 3. prime compatibles (module `grasselli_luccio`) (Grasselli & Luccio 1965, every compatible
 //!    tested against all its compatible supersets);
-//! 4. a [minimum closed cover](closed_cover) by branch and bound, started from the better
+//! 4. a minimum closed cover (module `closed_cover`) by branch and bound, started from the better
 //!    of "every maximal compatible" (always closed) and "every row alone", and stopped as
 //!    soon as it meets the lower bound: the largest set of pairwise incompatible rows.
 //!
