@@ -9,7 +9,7 @@
 //!   and their collapse ([`collapse_chains`]), oscillations, unreachable rows;
 //! - transition lists for state assignment ([`column_transitions`],
 //!   [`total_transitions`]);
-//! - exact state reduction ([`reduce`]): pair chart, maximal and prime compatibles
+//! - exact state reduction ([`reduce()`]): pair chart, maximal and prime compatibles
 //!   (Bron–Kerbosch, Grasselli–Luccio) and a minimum closed cover by branch and bound;
 //! - essential hazards by Unger's test ([`essential_hazards`]).
 //!
