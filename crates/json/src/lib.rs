@@ -226,11 +226,15 @@ impl Reader {
         }
     }
 
+    /// An error at the current character; at the end of the text the message says so.
     fn error(&self, message: &str) -> JsonError {
-        JsonError {
-            pos: self.pos(),
-            message: message.to_string(),
-        }
+        let message = if self.peek().is_none() && !message.starts_with("unexpected end") {
+            format!("unexpected end of input: {message}")
+        } else {
+            message.to_string()
+        };
+        JsonError { pos: self.pos(), message }
+    }
     }
 
     fn peek(&self) -> Option<char> {
@@ -561,6 +565,7 @@ mod tests {
         assert_eq!(e.pos, Pos { line: 2, col: 4 });
         assert_eq!(parse("").unwrap_err().pos, Pos { line: 1, col: 1 });
         assert!(parse("[1] x").is_err());
+        assert!(parse("{\"a\": 1,").unwrap_err().message.starts_with("unexpected end of input"));
         assert!(parse("01").is_err());
         assert!(parse("\"\\ud800\"").is_err());
         assert_eq!(
