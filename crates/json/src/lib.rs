@@ -233,8 +233,10 @@ impl Reader {
         } else {
             message.to_string()
         };
-        JsonError { pos: self.pos(), message }
-    }
+        JsonError {
+            pos: self.pos(),
+            message,
+        }
     }
 
     fn peek(&self) -> Option<char> {
@@ -565,7 +567,10 @@ mod tests {
         assert_eq!(e.pos, Pos { line: 2, col: 4 });
         assert_eq!(parse("").unwrap_err().pos, Pos { line: 1, col: 1 });
         assert!(parse("[1] x").is_err());
-        assert!(parse("{\"a\": 1,").unwrap_err().message.starts_with("unexpected end of input"));
+        assert!(parse("{\"a\": 1,")
+            .unwrap_err()
+            .message
+            .starts_with("unexpected end of input"));
         assert!(parse("01").is_err());
         assert!(parse("\"\\ud800\"").is_err());
         assert_eq!(
