@@ -5,3 +5,9 @@
 pub use stillpoint_assign as assign;
 pub use stillpoint_cover as cover;
 pub use stillpoint_table as table;
+
+pub mod encode;
+pub mod network;
+pub mod sim;
+pub mod synth;
+pub mod verilog;
