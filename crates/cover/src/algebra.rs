@@ -227,9 +227,9 @@ pub fn sharp(cover: &[Cube], minus: &[Cube]) -> Vec<Cube> {
 }
 
 /// Single-cube containment: removes duplicates and cubes inside another cube of the
-/// list. The survivors are sorted (largest cubes first, then by cube order).
+/// list. The survivors are sorted (largest cubes first, then by their words).
 pub fn scc(cover: &mut Vec<Cube>) {
-    cover.sort_by(|a, b| a.literal_count().cmp(&b.literal_count()).then(a.cmp(b)));
+    cover.sort_unstable_by_key(|c| (c.literal_count(), c.care_bits(), c.value_bits()));
     cover.dedup();
     let mut kept: Vec<Cube> = Vec::with_capacity(cover.len());
     for c in cover.iter() {

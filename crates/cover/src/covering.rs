@@ -97,10 +97,16 @@ struct Node {
 struct Search<'a> {
     cost: &'a [u64],
     words: usize,
-    best: Option<(u64, Vec<usize>)>,
     nodes: u64,
     stopped: bool,
     limits: Limits,
+}
+
+/// A solved (sub)problem.
+struct Sub {
+    cost: u64,
+    cols: Vec<usize>,
+    lb: u64,
 }
 
 /// Solves `p` exactly within `limits`. `Err(row)` when row `row` has no column.
@@ -124,7 +130,6 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
     let mut s = Search {
         cost: &p.cost,
         words,
-        best: None,
         nodes: 0,
         stopped: false,
         limits,
@@ -138,24 +143,128 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
     let feasible = s.reduce(&mut root);
     debug_assert!(feasible);
     let core = (root.rows.len(), count(&root.mask) as usize);
-    let root_lb = root.cost + s.mis_bound(&root.rows);
-    let greedy = s.greedy(&root);
-    s.best = Some(greedy);
-    s.branch(root);
-    let (cost, mut cols) = s.best.take().unwrap_or((0, Vec::new()));
+    let sub = s.exact(root);
+    let mut cols = sub.cols;
     cols.sort_unstable();
     let optimal = !s.stopped;
     Ok(Outcome {
         cols,
-        cost,
+        cost: sub.cost,
         optimal,
-        lower_bound: if optimal { cost } else { root_lb.min(cost) },
+        lower_bound: if optimal {
+            sub.cost
+        } else {
+            sub.lb.min(sub.cost)
+        },
         nodes: s.nodes,
         core,
     })
 }
 
 impl Search<'_> {
+    /// Exact solution of a subproblem (its own upper bound, split into independent
+    /// blocks when it falls apart). When the budget has run out, the greedy answer.
+    fn exact(&mut self, mut n: Node) -> Sub {
+        if !self.reduce(&mut n) {
+            return Sub {
+                cost: u64::MAX,
+                cols: Vec::new(),
+                lb: u64::MAX,
+            };
+        }
+        if n.rows.is_empty() {
+            return Sub {
+                cost: n.cost,
+                cols: n.chosen,
+                lb: n.cost,
+            };
+        }
+        let comps = self.components(&n);
+        if comps.len() > 1 {
+            let mut total = Sub {
+                cost: n.cost,
+                cols: n.chosen.clone(),
+                lb: n.cost,
+            };
+            for c in comps {
+                let s = self.exact(c);
+                total.cost = total.cost.saturating_add(s.cost);
+                total.lb = total.lb.saturating_add(s.lb);
+                total.cols.extend(s.cols);
+            }
+            return total;
+        }
+        let lb = n.cost + self.mis_bound(&n.rows);
+        let mut best = self.greedy(&n);
+        if !self.stopped && best.0 > lb {
+            self.branch(n, &mut best);
+        }
+        let lb = if self.stopped { lb.min(best.0) } else { best.0 };
+        Sub {
+            cost: best.0,
+            cols: best.1,
+            lb,
+        }
+    }
+
+    /// Splits a reduced node into blocks of rows that share no column.
+    fn components(&self, n: &Node) -> Vec<Node> {
+        let ncol = self.words * 64;
+        let mut parent: Vec<usize> = (0..ncol).collect();
+        fn find(p: &mut [usize], mut x: usize) -> usize {
+            while p[x] != x {
+                p[x] = p[p[x]];
+                x = p[x];
+            }
+            x
+        }
+        for r in &n.rows {
+            let mut it = ones(r);
+            if let Some(first) = it.next() {
+                let a = find(&mut parent, first);
+                for c in it {
+                    let b = find(&mut parent, c);
+                    if a != b {
+                        parent[b] = a;
+                    }
+                }
+            }
+        }
+        let mut roots: Vec<usize> = Vec::new();
+        let mut groups: Vec<Vec<Bits>> = Vec::new();
+        for r in &n.rows {
+            let first = ones(r).next().unwrap_or(0);
+            let root = find(&mut parent, first);
+            match roots.iter().position(|&x| x == root) {
+                Some(k) => groups[k].push(r.clone()),
+                None => {
+                    roots.push(root);
+                    groups.push(vec![r.clone()]);
+                }
+            }
+        }
+        if groups.len() == 1 {
+            return vec![n.clone()];
+        }
+        groups
+            .into_iter()
+            .map(|rows| {
+                let mut mask = vec![0u64; self.words];
+                for r in &rows {
+                    for (m, w) in mask.iter_mut().zip(r) {
+                        *m |= *w;
+                    }
+                }
+                Node {
+                    rows,
+                    mask,
+                    chosen: Vec::new(),
+                    cost: 0,
+                }
+            })
+            .collect()
+    }
+
     /// Applies essential columns, row dominance and column dominance until none
     /// applies. `false` if some row lost all its columns.
     fn reduce(&self, n: &mut Node) -> bool {
@@ -185,57 +294,82 @@ impl Search<'_> {
                 }
                 i += 1;
             }
-            // Row dominance: a row holding all columns of another row is implied.
-            n.rows.sort_by_key(|r| count(r));
-            let mut kept: Vec<Bits> = Vec::with_capacity(n.rows.len());
-            for r in n.rows.drain(..) {
-                if kept.iter().any(|k| subset(k, &r)) {
-                    changed = true;
-                } else {
-                    kept.push(r);
-                }
+            if n.rows.is_empty() {
+                return true;
             }
-            n.rows = kept;
-            // Column dominance.
+            // Column -> rows index over the current rows.
             let nr = n.rows.len();
             let rw = nr.div_ceil(64).max(1);
-            let active: Vec<usize> = ones(&n.mask).collect();
-            let mut colrows: Vec<Bits> = vec![vec![0u64; rw]; active.len()];
-            let mut idx = vec![usize::MAX; self.words * 64];
-            for (k, &c) in active.iter().enumerate() {
-                idx[c] = k;
-            }
+            let mut colrows: Vec<Bits> = vec![Vec::new(); self.words * 64];
             for (ri, r) in n.rows.iter().enumerate() {
                 for c in ones(r) {
-                    set(&mut colrows[idx[c]], ri);
+                    if colrows[c].is_empty() {
+                        colrows[c] = vec![0u64; rw];
+                    }
+                    set(&mut colrows[c], ri);
                 }
             }
-            let mut alive = vec![true; active.len()];
-            for (k, &c) in active.iter().enumerate() {
-                if count(&colrows[k]) == 0 {
-                    alive[k] = false;
+            // Row dominance: a row holding all columns of another row is implied.
+            // Candidates containing row a must hold a's first column.
+            let mut dead = vec![false; nr];
+            let mut order: Vec<usize> = (0..nr).collect();
+            order.sort_by_key(|&i| (count(&n.rows[i]), i));
+            for (pos, &a) in order.iter().enumerate() {
+                if dead[a] {
+                    continue;
+                }
+                let first = ones(&n.rows[a]).next().unwrap_or(0);
+                for b in ones(&colrows[first]) {
+                    if b == a || dead[b] {
+                        continue;
+                    }
+                    // Ties (equal rows): the later one in `order` dies.
+                    if subset(&n.rows[a], &n.rows[b]) {
+                        let a_first =
+                            order.iter().position(|&x| x == b).unwrap_or(usize::MAX) > pos;
+                        if n.rows[a] != n.rows[b] || a_first {
+                            dead[b] = true;
+                            changed = true;
+                        }
+                    }
+                }
+            }
+            if changed {
+                let mut k = 0;
+                n.rows.retain(|_| {
+                    k += 1;
+                    !dead[k - 1]
+                });
+                continue;
+            }
+            // Column dominance: c1 is dropped if some c2 covers all its rows at no more
+            // cost; c2 must hold the first row of c1.
+            let active: Vec<usize> = ones(&n.mask).collect();
+            let mut alive = vec![true; self.words * 64];
+            for &c in &active {
+                if colrows[c].is_empty() {
+                    alive[c] = false;
                     clear(&mut n.mask, c);
                     changed = true;
                 }
             }
-            for k1 in 0..active.len() {
-                if !alive[k1] {
+            for &c1 in &active {
+                if !alive[c1] {
                     continue;
                 }
-                let c1 = active[k1];
-                for k2 in 0..active.len() {
-                    if k1 == k2 || !alive[k2] {
+                let r0 = ones(&colrows[c1]).next().unwrap_or(0);
+                for c2 in ones(&n.rows[r0]) {
+                    if c1 == c2 || !alive[c2] || self.cost[c1] < self.cost[c2] {
                         continue;
                     }
-                    let c2 = active[k2];
-                    if self.cost[c1] < self.cost[c2] || !subset(&colrows[k1], &colrows[k2]) {
+                    if !subset(&colrows[c1], &colrows[c2]) {
                         continue;
                     }
                     // Equal sets and equal costs: keep the lower index.
-                    if self.cost[c1] == self.cost[c2] && colrows[k1] == colrows[k2] && c1 < c2 {
+                    if self.cost[c1] == self.cost[c2] && colrows[c1] == colrows[c2] && c1 < c2 {
                         continue;
                     }
-                    alive[k1] = false;
+                    alive[c1] = false;
                     clear(&mut n.mask, c1);
                     changed = true;
                     break;
@@ -247,7 +381,8 @@ impl Search<'_> {
         }
     }
 
-    /// The independent-set lower bound on the cost still to pay.
+    /// The independent-set lower bound on the cost still to pay: rows taken shortest
+    /// first, each only if it shares no column with the rows taken.
     fn mis_bound(&self, rows: &[Bits]) -> u64 {
         let mut order: Vec<usize> = (0..rows.len()).collect();
         order.sort_by_key(|&i| count(&rows[i]));
@@ -270,8 +405,9 @@ impl Search<'_> {
         let mut rows: Vec<&Bits> = n.rows.iter().collect();
         let mut chosen = n.chosen.clone();
         let mut extra: Vec<usize> = Vec::new();
+        let mut counts = vec![0u32; self.words * 64];
         while !rows.is_empty() {
-            let mut counts = vec![0u32; self.words * 64];
+            counts.iter_mut().for_each(|c| *c = 0);
             for r in &rows {
                 for c in ones(r) {
                     counts[c] += 1;
@@ -300,11 +436,10 @@ impl Search<'_> {
         while k > 0 {
             k -= 1;
             let c = extra[k];
-            let others: Vec<usize> = extra.iter().copied().filter(|&x| x != c).collect();
             let needed = n
                 .rows
                 .iter()
-                .any(|r| has(r, c) && !others.iter().any(|&o| has(r, o)));
+                .any(|r| has(r, c) && !extra.iter().any(|&o| o != c && has(r, o)));
             if !needed {
                 extra.remove(k);
             }
@@ -314,46 +449,54 @@ impl Search<'_> {
         (cost, chosen)
     }
 
-    fn branch(&mut self, mut n: Node) {
+    fn branch(&mut self, mut n: Node, best: &mut (u64, Vec<usize>)) {
         if self.stopped {
             return;
         }
         self.nodes += 1;
-        if self.nodes > self.limits.node_limit
-            || (self.nodes % 32 == 0 && Instant::now() >= self.limits.deadline)
-        {
+        if self.nodes > self.limits.node_limit || Instant::now() >= self.limits.deadline {
             self.stopped = true;
             return;
         }
         if !self.reduce(&mut n) {
             return;
         }
-        let best_cost = self.best.as_ref().map(|b| b.0).unwrap_or(u64::MAX);
         if n.rows.is_empty() {
-            if n.cost < best_cost {
-                self.best = Some((n.cost, n.chosen.clone()));
+            if n.cost < best.0 {
+                *best = (n.cost, n.chosen.clone());
             }
             return;
         }
-        if n.cost + self.mis_bound(&n.rows) >= best_cost {
+        if n.cost + self.mis_bound(&n.rows) >= best.0 {
+            return;
+        }
+        let comps = self.components(&n);
+        if comps.len() > 1 {
+            let mut cost = n.cost;
+            let mut cols = n.chosen.clone();
+            for c in comps {
+                let s = self.exact(c);
+                cost = cost.saturating_add(s.cost);
+                cols.extend(s.cols);
+            }
+            if cost < best.0 {
+                *best = (cost, cols);
+            }
             return;
         }
         // Branch on the columns of the shortest row, most covering first.
-        let (ri, _) = n
-            .rows
-            .iter()
-            .enumerate()
-            .min_by_key(|(_, r)| count(r))
-            .unwrap_or((0, &n.rows[0]));
-        let mut cols: Vec<usize> = ones(&n.rows[ri]).collect();
+        let ri = (0..n.rows.len())
+            .min_by_key(|&i| count(&n.rows[i]))
+            .unwrap_or(0);
         let cover_count = |c: usize| n.rows.iter().filter(|r| has(r, c)).count();
-        let mut keyed: Vec<(usize, usize)> = cols.iter().map(|&c| (c, cover_count(c))).collect();
+        let mut keyed: Vec<(usize, usize)> =
+            ones(&n.rows[ri]).map(|c| (c, cover_count(c))).collect();
         keyed.sort_by(|a, b| {
             b.1.cmp(&a.1)
                 .then(self.cost[a.0].cmp(&self.cost[b.0]))
                 .then(a.0.cmp(&b.0))
         });
-        cols = keyed.into_iter().map(|(c, _)| c).collect();
+        let cols: Vec<usize> = keyed.into_iter().map(|(c, _)| c).collect();
         for (k, &c) in cols.iter().enumerate() {
             let mut mask = n.mask.clone();
             for &prev in &cols[..k] {
@@ -369,7 +512,7 @@ impl Search<'_> {
                 chosen,
                 cost: n.cost + self.cost[c],
             };
-            self.branch(child);
+            self.branch(child, best);
             if self.stopped {
                 return;
             }

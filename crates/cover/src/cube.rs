@@ -272,24 +272,13 @@ impl Cube {
         })
     }
 
-    /// The sort key: variable 0 first, `-` < `0` < `1` (the byte order of cube strings).
-    fn key(&self) -> (u64, u64) {
-        // Reverse bit order so that variable 0 is the most significant bit.
-        let c = self.care.reverse_bits();
-        let v = self.value.reverse_bits();
-        // Compare position by position: code 0 for '-', 1 for '0', 2 for '1'.
-        // Interleave into a 128-bit key: high bit = care, low bit = value.
-        let mut hi = 0u64;
-        let mut lo = 0u64;
-        for k in 0..32 {
-            let shift = 63 - k;
-            hi = (hi << 2) | (((c >> shift) & 1) << 1) | ((v >> shift) & 1);
+    /// The order code of variable `v`: `-` 0, `0` 1, `1` 2.
+    fn code(&self, v: u32) -> u8 {
+        if (self.care >> v) & 1 == 0 {
+            0
+        } else {
+            1 + ((self.value >> v) & 1) as u8
         }
-        for k in 32..64 {
-            let shift = 63 - k;
-            lo = (lo << 2) | (((c >> shift) & 1) << 1) | ((v >> shift) & 1);
-        }
-        (hi, lo)
     }
 }
 
@@ -312,7 +301,12 @@ impl Ord for Cube {
     /// Orders like the cube strings compared byte by byte (`-` < `0` < `1`, variable 0
     /// first).
     fn cmp(&self, other: &Self) -> Ordering {
-        self.key().cmp(&other.key())
+        let diff = (self.care ^ other.care) | (self.value ^ other.value);
+        if diff == 0 {
+            return Ordering::Equal;
+        }
+        let v = diff.trailing_zeros();
+        self.code(v).cmp(&other.code(v))
     }
 }
 
