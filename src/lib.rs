@@ -8,6 +8,7 @@ pub use stillpoint_table as table;
 
 pub mod encode;
 pub mod network;
+pub mod pictures;
 pub mod sim;
 pub mod synth;
 pub mod verilog;

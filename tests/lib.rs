@@ -1,1 +1,4 @@
 //! Integration tests.
+
+// Pictures: code cube, maps, flow graph (issue 8).
+mod pictures;
