@@ -325,6 +325,19 @@ fn check_svg(svg: &str, png_name: &str) -> (u32, u32, usize) {
         pixmap
             .save_png(Path::new(&dir).join(format!("{png_name}.png")))
             .unwrap();
+        // And a greyscale copy, to judge the palette as a greyscale print would show it.
+        let mut grey = pixmap.clone();
+        for px in grey.pixels_mut() {
+            let (r, g, b) = (
+                f64::from(px.red()),
+                f64::from(px.green()),
+                f64::from(px.blue()),
+            );
+            let l = ((0.299 * r + 0.587 * g + 0.114 * b).round() as u8).min(px.alpha());
+            *px = tiny_skia::PremultipliedColorU8::from_rgba(l, l, l, px.alpha()).unwrap();
+        }
+        grey.save_png(Path::new(&dir).join(format!("{png_name}_grey.png")))
+            .unwrap();
     }
     (w, h, ink)
 }

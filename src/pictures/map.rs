@@ -71,7 +71,8 @@ pub fn kmap_svg(m: &KMap) -> Result<String, PictureError> {
         _ => (2, 2),
     };
     let block_w = LEFT + cols as f64 * CELL;
-    let block_h = SUB_TITLE + TOP + rows as f64 * CELL;
+    let sub_title = if outer > 0 { SUB_TITLE } else { 0.0 };
+    let block_h = sub_title + TOP + rows as f64 * CELL;
     let maps_w = grid_c as f64 * block_w + (grid_c - 1) as f64 * GAP;
     let maps_h = grid_r as f64 * block_h + (grid_r - 1) as f64 * GAP;
 
@@ -104,7 +105,7 @@ pub fn kmap_svg(m: &KMap) -> Result<String, PictureError> {
             .max(text_width(&title, 16.0))
             .max(text_width(&varline, 12.0)))
     .max(220.0);
-    let legend_top = MARGIN + HEADER + maps_h + 20.0;
+    let legend_top = MARGIN + HEADER + maps_h + 30.0;
     let height = legend_top + 18.0 + legend.len() as f64 * 20.0 + MARGIN;
 
     let mut s = Svg::new();
@@ -140,7 +141,7 @@ pub fn kmap_svg(m: &KMap) -> Result<String, PictureError> {
             let bx = MARGIN + sc as f64 * (block_w + GAP);
             let by = MARGIN + HEADER + sr as f64 * (block_h + GAP);
             let gx = bx + LEFT;
-            let gy = by + SUB_TITLE + TOP;
+            let gy = by + sub_title + TOP;
             let outer_str: String = outer_bits.iter().map(|b| char::from(b'0' + b)).collect();
             let _ = writeln!(
                 s.body_mut(),

@@ -35,7 +35,8 @@ pub(crate) fn n(v: f64) -> String {
     }
 }
 
-/// The palette. Every pair of roles that can meet in one picture differs in lightness
+/// The palette. Grey values are the BT.601 luma of each colour as a share of white.
+/// Every pair of roles that can meet in one picture differs in lightness
 /// (grey value) and, for strokes, in dash pattern or width, not in hue alone; see
 /// `docs/pictures.md`.
 pub(crate) mod palette {
@@ -43,34 +44,34 @@ pub(crate) mod palette {
     pub(crate) const PAPER: &str = "#ffffff";
     /// Text, state nodes, ordinary arrows (grey value about 13%).
     pub(crate) const INK: &str = "#1f2328";
-    /// Secondary text: code labels, Gray labels, minterm numbers (about 45%).
+    /// Secondary text: code labels, Gray labels, minterm numbers (about 43%).
     pub(crate) const MUTED: &str = "#6b6f76";
     /// Cube edges and map grid lines (about 78%).
     pub(crate) const GRID: &str = "#c4c7cc";
-    /// Sub-cube shading of a multi-bit transition (about 90%, translucent).
+    /// Sub-cube shading of a multi-bit transition (about 92% as drawn, translucent).
     pub(crate) const SHADE: &str = "#e9dcb5";
-    /// Critical race: dark vermilion, thick and dashed (about 33%).
+    /// Critical race: dark vermilion, thick and dashed (about 35%).
     pub(crate) const CRITICAL: &str = "#b3361d";
     /// Dash pattern of the critical-race stroke.
     pub(crate) const CRITICAL_DASH: &str = "7 4";
-    /// Hatching of required transition cubes (about 60%).
+    /// Hatching of required transition cubes (about 55%).
     pub(crate) const HATCH: &str = "#8c8f96";
-    /// Reset marker (about 20%).
+    /// Reset marker (about 25%).
     pub(crate) const RESET: &str = "#21466b";
-    /// Stable entries (about 38%).
+    /// Stable entries (about 35%).
     pub(crate) const STABLE: &str = "#3d6b45";
 
     /// Outline styles of the chosen products of a map, in order: (colour, dash, width).
     /// Consecutive styles alternate between dark and light greys and between solid and
     /// broken strokes, so neighbours stay apart in a greyscale print.
     pub(crate) const PRODUCT_STYLES: [(&str, &str, f64); 8] = [
-        ("#12355b", "", 2.6),         // dark blue, solid, about 19%
+        ("#12355b", "", 2.6),         // dark blue, solid, about 18%
         ("#e07b00", "8 3", 2.6),      // orange, long dash, about 55%
-        ("#3e7d3a", "2 2.5", 2.8),    // green, dotted, about 42%
-        ("#8a3b8f", "10 3 2 3", 2.4), // plum, dash-dot, about 35%
-        ("#0f7c8c", "", 1.6),         // teal, thin solid, about 40%
+        ("#3e7d3a", "2 2.5", 2.8),    // green, dotted, about 38%
+        ("#b07cc6", "10 3 2 3", 2.4), // lilac, dash-dot, about 58%
+        ("#0f7c8c", "", 1.6),         // teal, thin solid, about 37%
         ("#7a5a00", "5 5", 2.6),      // umber, even dash, about 35%
-        ("#c0397a", "1.5 3", 3.0),    // rose, sparse dots, about 43%
+        ("#e0609a", "1.5 3", 3.0),    // rose, sparse dots, about 55%
         ("#404040", "12 4", 1.8),     // grey, very long dash, about 25%
     ];
 }
@@ -244,6 +245,36 @@ mod tests {
     fn escapes_xml_specials() {
         assert_eq!(esc("a<b>&\"c'"), "a&lt;b&gt;&amp;&quot;c&apos;");
         assert_eq!(esc("x\u{1}y"), "x\u{fffd}y");
+    }
+
+    /// BT.601 luma of `#rrggbb` as a share of white (common practice, no source).
+    fn luma(hex: &str) -> f64 {
+        let c = |i: usize| f64::from(u8::from_str_radix(&hex[i..i + 2], 16).unwrap());
+        (0.299 * c(1) + 0.587 * c(3) + 0.114 * c(5)) / 255.0
+    }
+
+    #[test]
+    fn palette_survives_greyscale() {
+        use palette::*;
+        // Roles that meet in one picture differ in lightness or in dash pattern.
+        assert!((luma(INK) - luma(GRID)).abs() > 0.5);
+        assert!((luma(INK) - luma(MUTED)).abs() > 0.25);
+        assert!((luma(CRITICAL) - luma(INK)).abs() > 0.15 && !CRITICAL_DASH.is_empty());
+        assert!(luma(SHADE) > 0.8 && luma(HATCH) > 0.45);
+        let st = PRODUCT_STYLES;
+        for (i, a) in st.iter().enumerate() {
+            let b = st[(i + 1) % st.len()];
+            assert!(
+                a.1 != b.1 || (luma(a.0) - luma(b.0)).abs() > 0.15,
+                "styles {i} and {} look alike in grey",
+                (i + 1) % st.len()
+            );
+            for c in &st[i + 1..] {
+                assert!(
+                    a.1 != c.1 || (a.2 - c.2).abs() > 0.5 || (luma(a.0) - luma(c.0)).abs() > 0.15
+                );
+            }
+        }
     }
 
     #[test]
