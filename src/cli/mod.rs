@@ -24,12 +24,16 @@ pub struct CliError {
 impl CliError {
     /// A usage or input error with a ready message.
     pub fn new(message: impl Into<String>) -> Self {
-        CliError { message: message.into() }
+        CliError {
+            message: message.into(),
+        }
     }
 
     /// An error located in a file: `FILE:LINE:COL: message`.
     pub fn at(file: &str, line: usize, col: usize, message: impl fmt::Display) -> Self {
-        CliError { message: format!("{file}:{line}:{col}: {message}") }
+        CliError {
+            message: format!("{file}:{line}:{col}: {message}"),
+        }
     }
 }
 
@@ -73,15 +77,27 @@ pub fn read_input(path: &str) -> Result<Input, CliError> {
             let good = &e.as_bytes()[..e.utf8_error().valid_up_to()];
             let line = 1 + good.iter().filter(|&&b| b == b'\n').count();
             let col = 1 + good.iter().rev().take_while(|&&b| b != b'\n').count();
-            return Err(CliError::at(&name, line, col, "invalid UTF-8: expected text"));
+            return Err(CliError::at(
+                &name,
+                line,
+                col,
+                "invalid UTF-8: expected text",
+            ));
         }
     };
-    Ok(Input { is_json: path.ends_with(".json"), name, text })
+    Ok(Input {
+        is_json: path.ends_with(".json"),
+        name,
+        text,
+    })
 }
 
 /// Prints a JSON value on stdout, pretty and with a trailing newline.
 pub fn print_json(value: &serde_json::Value) {
-    println!("{}", serde_json::to_string_pretty(value).unwrap_or_else(|_| "{}".into()));
+    println!(
+        "{}",
+        serde_json::to_string_pretty(value).unwrap_or_else(|_| "{}".into())
+    );
 }
 
 /// Writes a file, mapping I/O failures to exit status 2.
@@ -91,7 +107,8 @@ pub fn write_file(path: &str, contents: &str) -> Result<(), CliError> {
 }
 
 /// The caution every report carries.
-pub const CAUTION: &str = "Caution: these equations assume fundamental-mode operation (inputs change only \
+pub const CAUTION: &str =
+    "Caution: these equations assume fundamental-mode operation (inputs change only \
 when the circuit is stable, one change at a time unless multiple changes were requested) and the \
 delay model stated in the report (feedback delay at least the input-to-logic skew). They are \
 verified by ternary simulation of the ideal gate network, not of your layout. Run timing analysis \
