@@ -381,14 +381,46 @@ impl Search<'_> {
         }
     }
 
-    /// The independent-set lower bound on the cost still to pay: rows taken shortest
-    /// first, each only if it shares no column with the rows taken.
+    /// The independent-set lower bound on the cost still to pay: the better of two
+    /// greedy independent sets of rows (shortest rows first; rows meeting fewest other
+    /// rows first), each row counting its cheapest column.
     fn mis_bound(&self, rows: &[Bits]) -> u64 {
+        let by_len = {
+            let mut order: Vec<usize> = (0..rows.len()).collect();
+            order.sort_by_key(|&i| count(&rows[i]));
+            self.independent(rows, &order)
+        };
+        if rows.len() < 4 {
+            return by_len;
+        }
+        // Degree of each row: how many rows share a column with it.
+        let mut colrows: Vec<Vec<usize>> = vec![Vec::new(); self.words * 64];
+        for (i, r) in rows.iter().enumerate() {
+            for c in ones(r) {
+                colrows[c].push(i);
+            }
+        }
+        let rw = rows.len().div_ceil(64);
+        let mut seen = vec![0u64; rw];
+        let mut degree = vec![0u32; rows.len()];
+        for (i, r) in rows.iter().enumerate() {
+            seen.iter_mut().for_each(|w| *w = 0);
+            for c in ones(r) {
+                for &j in &colrows[c] {
+                    set(&mut seen, j);
+                }
+            }
+            degree[i] = count(&seen);
+        }
         let mut order: Vec<usize> = (0..rows.len()).collect();
-        order.sort_by_key(|&i| count(&rows[i]));
+        order.sort_by_key(|&i| (degree[i], count(&rows[i]), i));
+        by_len.max(self.independent(rows, &order))
+    }
+
+    fn independent(&self, rows: &[Bits], order: &[usize]) -> u64 {
         let mut used = vec![0u64; self.words];
         let mut lb = 0u64;
-        for i in order {
+        for &i in order {
             if disjoint(&rows[i], &used) {
                 lb += ones(&rows[i]).map(|c| self.cost[c]).min().unwrap_or(0);
                 for (u, w) in used.iter_mut().zip(&rows[i]) {

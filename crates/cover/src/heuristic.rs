@@ -47,13 +47,13 @@ pub(crate) fn cover_one(s: &OutputSpec, deadline: Instant) -> Vec<Cube> {
     f.extend(sharp(&s.on, &privs));
     scc(&mut f);
     let mut f = expand_all(s, f);
-    irredundant(s, &mut f, false);
+    irredundant(s, &mut f, None);
     let mut best = f.clone();
     let mut stale = 0;
     while stale < 2 && Instant::now() < deadline {
         reduce(s, &mut f);
         f = expand_all(s, f);
-        irredundant(s, &mut f, false);
+        irredundant(s, &mut f, None);
         if cost(&f) < cost(&best) {
             best = f.clone();
             stale = 0;
@@ -63,10 +63,21 @@ pub(crate) fn cover_one(s: &OutputSpec, deadline: Instant) -> Vec<Cube> {
     }
     let mut f = best;
     if s.adjacent_pairs {
-        add_pair_terms(s, &mut f);
-        irredundant(s, &mut f, true);
+        let edges = edges(s);
+        add_pair_terms(s, &mut f, &edges);
+        irredundant(s, &mut f, Some(&edges));
     }
     f
+}
+
+/// For each variable `v`, the adjacent on-on pairs along `v` as cubes with `v` free.
+pub(crate) fn edges(s: &OutputSpec) -> Vec<Vec<Cube>> {
+    (0..s.nvars)
+        .map(|v| {
+            let (lo, hi) = split(&s.on, v);
+            intersect(&lo, &hi)
+        })
+        .collect()
 }
 
 fn cost(f: &[Cube]) -> (usize, usize) {
@@ -114,7 +125,7 @@ fn expand(s: &OutputSpec, c: Cube, others: &[Cube]) -> Cube {
 
 /// Removes products not needed for the on-set, the required cubes and (when `pairs`)
 /// the adjacent on-on pairs; most-literal products are tried first.
-fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: bool) {
+fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: Option<&[Vec<Cube>]>) {
     f.sort_by_key(|c| (std::cmp::Reverse(c.literal_count()), *c));
     let mut i = 0;
     while i < f.len() {
@@ -134,8 +145,8 @@ fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: bool) {
                 .iter()
                 .all(|r| !c.contains(&r.cube) || others.iter().any(|d| d.contains(&r.cube)));
         }
-        if removable && pairs {
-            removable = pairs_held_without(s, &c, &others);
+        if let (true, Some(edges)) = (removable, pairs) {
+            removable = pairs_held_without(&c, &others, edges);
         }
         if removable {
             f.remove(i);
@@ -146,13 +157,12 @@ fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: bool) {
 }
 
 /// Whether every adjacent on-on pair inside `c` is held by some cube of `others`.
-fn pairs_held_without(s: &OutputSpec, c: &Cube, others: &[Cube]) -> bool {
-    for v in 0..s.nvars {
+fn pairs_held_without(c: &Cube, others: &[Cube], all_edges: &[Vec<Cube>]) -> bool {
+    for (v, ev) in all_edges.iter().enumerate() {
         if c.literal(v).is_some() {
             continue;
         }
-        let (lo, hi) = split(&s.on, v);
-        let edges = intersect(&intersect(&lo, &hi), &[*c]);
+        let edges: Vec<Cube> = ev.iter().filter_map(|e| e.intersection(c)).collect();
         let holders: Vec<Cube> = others
             .iter()
             .copied()
@@ -169,10 +179,8 @@ fn pairs_held_without(s: &OutputSpec, c: &Cube, others: &[Cube]) -> bool {
 
 /// Adds, for every adjacent on-on pair held by no single product, a maximal legal cube
 /// holding it (consensus terms).
-fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>) {
-    for v in 0..s.nvars {
-        let (lo, hi) = split(&s.on, v);
-        let edges = intersect(&lo, &hi);
+fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>, all_edges: &[Vec<Cube>]) {
+    for (v, edges) in all_edges.iter().enumerate() {
         if edges.is_empty() {
             continue;
         }
@@ -181,7 +189,7 @@ fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>) {
             .copied()
             .filter(|d| d.literal(v).is_none())
             .collect();
-        let mut open = sharp(&edges, &holders);
+        let mut open = sharp(edges, &holders);
         while let Some(&u) = open.first() {
             let e = expand(s, u, &open[1..]);
             f.push(e);
@@ -238,7 +246,12 @@ fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>]) {
             }
         }
         scc(&mut f);
-        irredundant(s, &mut f, s.adjacent_pairs);
+        let e = if s.adjacent_pairs {
+            edges(s)
+        } else {
+            Vec::new()
+        };
+        irredundant(s, &mut f, if s.adjacent_pairs { Some(&e) } else { None });
         covers[k] = f;
     }
 }
@@ -246,6 +259,11 @@ fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>]) {
 /// A lower bound on the products of one output: a greedy set of points and required
 /// cubes no two of which fit in one legal product.
 pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
+    let pair_edges = if s.adjacent_pairs {
+        Some(edges(s))
+    } else {
+        None
+    };
     let mut items: Vec<Cube> = s.required.iter().map(|r| r.cube).collect();
     for (i, c) in cover.iter().enumerate() {
         let mut rest: Vec<Cube> = cover
@@ -256,20 +274,37 @@ pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
             .collect();
         rest.extend_from_slice(&s.dc);
         let only = sharp(&[*c], &rest);
-        let pick = only
-            .first()
-            .copied()
-            .or_else(|| s.on.iter().find_map(|o| o.intersection(c)));
-        if let Some(p) = pick {
+        if let Some(p) = only.first() {
             items.push(Cube::from_words(crate::cube::mask(s.nvars), p.value_bits()));
+            continue;
+        }
+        // Static mode: an adjacent pair that only this product holds.
+        if let Some(all_edges) = &pair_edges {
+            for (v, ev) in all_edges.iter().enumerate() {
+                if c.literal(v).is_some() {
+                    continue;
+                }
+                let holders: Vec<Cube> = cover
+                    .iter()
+                    .enumerate()
+                    .filter(|&(k, d)| k != i && d.literal(v).is_none())
+                    .map(|(_, d)| *d)
+                    .collect();
+                let mine: Vec<Cube> = ev.iter().filter_map(|e| e.intersection(c)).collect();
+                if let Some(p) = sharp(&mine, &holders).first() {
+                    let m = crate::cube::mask(s.nvars) & !(1u64 << v);
+                    items.push(Cube::from_words(m, p.value_bits()));
+                    break;
+                }
+            }
         }
     }
     items.sort_by_key(|c| std::cmp::Reverse(c.literal_count()));
     items.dedup();
     let mut chosen: Vec<Cube> = Vec::new();
     for it in items {
-        // A point chosen from `only` may be a don't-care in rare cases: keep on-set only.
-        if it.literal_count() == s.nvars && !s.on.iter().any(|o| o.contains(&it)) {
+        // Every item must be needed: an on-set point or an adjacent on-on pair.
+        if !s.on.iter().any(|o| o.contains(&it)) {
             continue;
         }
         if chosen
