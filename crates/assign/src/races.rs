@@ -4,8 +4,8 @@
 //! bits may change in any order, so the machine may pass any point of the sub-cube
 //! `[c_s, c_t]`. A point that is an unused code, or the code of a state whose entry in `x`
 //! is unspecified, is free: the encoding may send it anywhere, in particular on to `c_t`.
-//! The race is **critical** when the sub-cube meets, beyond `c_s` itself, the sub-cube of
-//! another entry of the column with a different destination (a stable entry `w` counts as
+//! The race is **critical** when the sub-cube meets, beyond `c_s` and `c_t` (whose own
+//! entries are fixed), the sub-cube of another entry of the column with a different destination (a stable entry `w` counts as
 //! the point `c_w`): some order of bit changes then reaches a point that must lead
 //! elsewhere. Otherwise it is non-critical. This is Tracey's separation condition read per
 //! transition (methods.md §3.2); the analysis works on cubes, `O(T^2)` per column of `T`
@@ -142,7 +142,7 @@ pub(crate) fn analyze_problem(p: &Problem, codes: &[u64], width: usize) -> RaceR
     report
 }
 
-/// The point of `[c_s, c_t]` other than `c_s` that lies in the sub-cube of an entry with
+/// The point of `[c_s, c_t]` other than `c_s` and `c_t` that lies in the sub-cube of an entry with
 /// another destination, and that destination.
 fn critical_point(
     pairs: &[(u32, u32)],
@@ -166,7 +166,8 @@ fn critical_point(
             }
         }
     }
-    // Otherwise any shared point but c_s, nearest to c_s.
+    // Otherwise any shared point but c_s and c_t (their own entries are fixed), nearest
+    // to c_s.
     let all = if width >= 64 {
         u64::MAX
     } else {
@@ -182,15 +183,19 @@ fn critical_point(
         }
         let fixed_i = (!free | !(cu ^ cv)) & all; // fixed in the intersection
         let val_i = (cs & !free) | (cu & !(cu ^ cv));
-        let mut point = (cs & !fixed_i) | (val_i & fixed_i);
-        if point == cs {
-            let open = !fixed_i & all;
-            if open == 0 {
-                continue; // the cubes meet only at c_s
-            }
-            point ^= 1u64 << (63 - open.leading_zeros()); // lowest-numbered variable
+        let p0 = (cs & !fixed_i) | (val_i & fixed_i);
+        let ok = |p: u64| p != cs && p != ct;
+        if ok(p0) {
+            return Some((p0, v));
         }
-        return Some((point, v));
+        // Flip one open variable of the intersection, lowest-numbered first.
+        let open = !fixed_i & all;
+        for var in 0..width {
+            let m = 1u64 << (width - 1 - var);
+            if open & m != 0 && ok(p0 ^ m) {
+                return Some((p0 ^ m, v));
+            }
+        }
     }
     None
 }
