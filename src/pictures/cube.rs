@@ -260,13 +260,15 @@ pub fn code_cube_svg(c: &CodeCube) -> String {
         let (x2, y2) = at(b);
         let _ = writeln!(
             s.body_mut(),
-            "<line class=\"edge\" data-a=\"{}\" data-b=\"{}\" x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\"/>",
+            "<line class=\"edge\" data-a=\"{}\" data-b=\"{}\" x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\"{}/>",
             bits(a, k),
             bits(b, k),
             super::svg::n(x1),
             super::svg::n(y1),
             super::svg::n(x2),
-            super::svg::n(y2)
+            super::svg::n(y2),
+            // An edge between two inner 3-cubes (a leading variable changes) is dashed.
+            if k > 3 && k <= 6 && (a ^ b) >= 8 { " stroke-dasharray=\"3 4\" stroke-opacity=\"0.6\"" } else { "" }
         );
     }
     s.raw("</g>");
@@ -564,7 +566,15 @@ fn full_layout(k: usize, vars: &[String]) -> (Vec<(u64, f64, f64)>, Vec<(u64, u6
     let axis = if k == 0 {
         "no state variables: a single point".into()
     } else {
-        format!("axes: {}", key.join("; "))
+        format!(
+            "axes: {}{}",
+            key.join("; "),
+            if k > 3 {
+                "; dashed edges join the 3-cubes"
+            } else {
+                ""
+            }
+        )
     };
     (points, edges, axis)
 }

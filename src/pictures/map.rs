@@ -40,7 +40,7 @@ const HEADER: f64 = 50.0; // picture title and variable line
 /// ```
 pub fn kmap_svg(m: &KMap) -> Result<String, PictureError> {
     let nv = m.vars.len();
-    if nv > 6 {
+    if nv > super::MAX_MAP_VARS {
         return Err(PictureError::TooManyVars {
             name: m.name.clone(),
             vars: nv,

@@ -38,6 +38,10 @@ pub use map::kmap_svg;
 
 use std::path::{Path, PathBuf};
 
+/// The most variables a map can show; the caller leaves larger functions out (and may
+/// say so), since [`kmap_svg`] and [`write_all`] refuse them.
+pub const MAX_MAP_VARS: usize = 6;
+
 /// The state assignment to draw as corners of the `k`-cube.
 #[derive(Debug, Clone, Default, PartialEq, Eq)]
 pub struct CodeCube {
@@ -144,7 +148,9 @@ pub enum PictureError {
 /// `map_<name>.svg` per map (characters other than letters, digits, `-` and `_` in the
 /// name become `_`; a clash gets a `_2`, `_3`, ... suffix), `flow.svg` and `flow.dot`.
 /// Returns the paths written, in that order. A map that cannot be drawn (see
-/// [`kmap_svg`]) is an `InvalidInput` error naming it; nothing is written after it.
+/// [`kmap_svg`]; in particular one over more than [`MAX_MAP_VARS`] variables, which the
+/// caller should leave out) is an `InvalidInput` error naming it; nothing is written
+/// after it.
 pub fn write_all(
     dir: &Path,
     cube: &CodeCube,
