@@ -128,6 +128,27 @@ fn controller_graph() -> FlowGraph {
     }
 }
 
+/// Ten states with longer names, each moving on by one or two places.
+fn wide_graph() -> FlowGraph {
+    let names: Vec<String> = (0..10).map(|i| format!("phase_{i}")).collect();
+    let mut edges = Vec::new();
+    let mut stable = Vec::new();
+    for i in 0..10 {
+        edges.push((names[i].clone(), names[(i + 1) % 10].clone(), s("01")));
+        if i % 3 == 0 {
+            edges.push((names[i].clone(), names[(i + 2) % 10].clone(), s("11")));
+        }
+        stable.push((names[i].clone(), s(if i % 2 == 0 { "00" } else { "10" })));
+    }
+    FlowGraph {
+        name: s("ten phases"),
+        states: names.clone(),
+        reset: Some(names[3].clone()),
+        edges,
+        stable,
+    }
+}
+
 fn vars(names: &[&str]) -> Vec<String> {
     names.iter().map(|v| s(v)).collect()
 }
@@ -859,6 +880,7 @@ fn flow_graph_pictures_parse_and_render() {
     for (name, g) in [
         ("flow_ring4", ring_graph()),
         ("flow_controller5", controller_graph()),
+        ("flow_wide10", wide_graph()),
         (
             "flow_single",
             FlowGraph {

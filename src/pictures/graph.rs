@@ -1,7 +1,8 @@
 //! The flow graph as SVG: states on a circle, transitions as labelled arrows.
 //!
-//! Layout: the states go clockwise on one circle starting at the top, in the given order,
-//! except that the reset state, if any, is moved to the top. The circle is just large
+//! Layout: the states go clockwise on one circle in the given order, starting at the top
+//! with the first state, or with the reset state if there is one (the order is rotated,
+//! so it stays the same cyclic order). The circle is just large
 //! enough that neighbouring nodes keep 70 px between their rims. Parallel edges (same
 //! source and destination) become one arrow labelled with the list of columns; an arrow
 //! whose reverse also exists is bent to its right so the pair stays apart, other arrows
@@ -92,9 +93,9 @@ pub(super) fn loops(g: &FlowGraph, name: &str) -> Vec<String> {
 pub fn flow_graph_svg(g: &FlowGraph) -> String {
     let mut nodes = node_list(g);
     if let Some(r) = &g.reset {
+        // Rotate (not move) so the reset state is on top and the cyclic order is kept.
         if let Some(i) = nodes.iter().position(|(n, _)| n == r) {
-            let node = nodes.remove(i);
-            nodes.insert(0, node);
+            nodes.rotate_left(i);
         }
     }
     let count = nodes.len();

@@ -92,8 +92,8 @@ pub struct KMap {
 pub struct FlowGraph {
     /// The table's name, shown as the title.
     pub name: String,
-    /// The states, in the order to place them (clockwise from the top, the reset state
-    /// first if there is one).
+    /// The states, in the order to place them: clockwise from the top, starting with the
+    /// reset state if there is one (the order is rotated to bring it to the top).
     pub states: Vec<String>,
     /// The reset state, if the table names one.
     pub reset: Option<String>,
