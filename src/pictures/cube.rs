@@ -90,6 +90,16 @@ pub fn code_cube_svg(c: &CodeCube) -> String {
             ));
             continue;
         };
+        if a == b {
+            notes.push(format!(
+                "not drawn: column {}: {} -> {} stays at code {}",
+                t.column,
+                t.from,
+                t.to,
+                bits(a, k)
+            ));
+            continue;
+        }
         let critical = t.critical_order.is_some();
         match groups.iter_mut().find(|g| g.from == a && g.to == b) {
             Some(g) => {
@@ -800,6 +810,17 @@ mod tests {
         let svg = code_cube_svg(&c);
         assert!(svg.contains("not drawn: state A has code &quot;0x&quot;"));
         assert!(svg.contains("not drawn: column c: Q -&gt; B"));
+        let c = CodeCube {
+            vars: vec!["y1".into()],
+            states: vec![("A".into(), "1".into())],
+            transitions: vec![CubeArrow {
+                column: "c".into(),
+                from: "A".into(),
+                to: "1".into(),
+                critical_order: None,
+            }],
+        };
+        assert!(code_cube_svg(&c).contains("not drawn: column c: A -&gt; 1 stays at code 1"));
     }
 
     #[test]
