@@ -69,57 +69,87 @@ fn run(label: &str, mf: &MultiFunction, cfg: &Config, mode: HazardMode) {
     }
 }
 
+/// Drops listed transitions that the function refuses (function hazard or no
+/// hazard-free cover) until the rest can be minimised.
+fn keep_valid(
+    n: usize,
+    on: &[u64],
+    dc: &[u64],
+    mut ts: Vec<Transition>,
+    vars: &[String],
+) -> MultiFunction {
+    loop {
+        let f = Function::from_minterms(n, on, dc, ts.clone()).unwrap();
+        let mf = MultiFunction::single(vars.to_vec(), "f", f);
+        match minimize(&mf, &Config::default().node_limit(1)) {
+            Err(stillpoint_cover::CoverError::FunctionHazard { transition, .. })
+            | Err(stillpoint_cover::CoverError::NoHazardFreeCover { transition, .. }) => {
+                ts.retain(|t| *t != transition)
+            }
+            _ => return mf,
+        }
+    }
+}
+
 fn main() {
     let args: Vec<String> = std::env::args().collect();
     let seeds: u64 = args.get(1).and_then(|s| s.parse().ok()).unwrap_or(3);
     let vars = |n: usize| (0..n).map(|i| format!("x{i}")).collect::<Vec<_>>();
     let budget = Duration::from_secs(10);
-    for n in [8usize, 10, 12] {
-        for seed in 0..seeds {
-            let (on, dc) = random_minterms(n, seed, 45, 10);
-            let f = Function::from_minterms(n, &on, &dc, vec![]).unwrap();
-            let mf = MultiFunction::single(vars(n), "f", f);
-            for (mode, name) in [(HazardMode::None, "none"), (HazardMode::Static, "static")] {
+    for n in [8usize, 12] {
+        for p_on in [10u64, 20, 30, 45] {
+            for seed in 0..seeds {
+                let (on, dc) = random_minterms(n, seed, p_on, 5);
+                let f = Function::from_minterms(n, &on, &dc, vec![]).unwrap();
+                let mf = MultiFunction::single(vars(n), "f", f);
+                for (mode, name) in [(HazardMode::None, "none"), (HazardMode::Static, "static")] {
+                    run(
+                        &format!("n={n} on={p_on}% seed={seed} {name:6} exact"),
+                        &mf,
+                        &Config::default().hazards(mode).budget(budget),
+                        mode,
+                    );
+                    run(
+                        &format!("n={n} on={p_on}% seed={seed} {name:6} fast "),
+                        &mf,
+                        &Config::default().hazards(mode).effort(Effort::Fast),
+                        mode,
+                    );
+                }
+                let mut r = Rng(seed + 99);
+                let ts: Vec<Transition> = (0..12)
+                    .map(|_| {
+                        let a = r.next() % (1 << n);
+                        let b = a ^ (r.next() % 15 + 1);
+                        Transition { start: a, end: b }
+                    })
+                    .filter(|t| !dc.contains(&t.start) && !dc.contains(&t.end))
+                    .collect();
+                let mf = keep_valid(n, &on, &dc, ts, &vars(n));
+                let k = mf.outputs[0].1.transitions().len();
                 run(
-                    &format!("n={n} seed={seed} {name} exact"),
+                    &format!("n={n} on={p_on}% seed={seed} full({k:2}) exact"),
                     &mf,
-                    &Config::default().hazards(mode).budget(budget),
-                    mode,
+                    &Config::default().budget(budget),
+                    HazardMode::Full,
                 );
                 run(
-                    &format!("n={n} seed={seed} {name} fast "),
+                    &format!("n={n} on={p_on}% seed={seed} full({k:2}) fast "),
                     &mf,
-                    &Config::default().hazards(mode).effort(Effort::Fast),
-                    mode,
+                    &Config::default().effort(Effort::Fast),
+                    HazardMode::Full,
                 );
             }
-            // Full mode with a few random transitions.
-            let mut r = Rng(seed + 99);
-            let ts: Vec<Transition> = (0..6)
-                .map(|_| {
-                    let a = r.next() % (1 << n);
-                    let b = a ^ (r.next() % 8 + 1);
-                    Transition { start: a, end: b }
-                })
-                .filter(|t| !dc.contains(&t.start) && !dc.contains(&t.end))
-                .collect();
-            let f = Function::from_minterms(n, &on, &dc, ts).unwrap();
-            let mf = MultiFunction::single(vars(n), "f", f);
-            run(
-                &format!("n={n} seed={seed} full exact"),
-                &mf,
-                &Config::default().budget(budget),
-                HazardMode::Full,
-            );
         }
     }
     for n in [16usize, 20, 24] {
         for seed in 0..seeds {
             let on = random_cubes(n, seed, 6 * n, n / 2);
+            let c = on.len();
             let f = Function::from_cubes(n, on, vec![], vec![]).unwrap();
             let mf = MultiFunction::single(vars(n), "f", f);
             run(
-                &format!("n={n} seed={seed} cubes none fast "),
+                &format!("n={n} cubes={c} seed={seed} none   fast "),
                 &mf,
                 &Config::default()
                     .hazards(HazardMode::None)
@@ -127,31 +157,33 @@ fn main() {
                 HazardMode::None,
             );
             run(
-                &format!("n={n} seed={seed} cubes static fast "),
+                &format!("n={n} cubes={c} seed={seed} none   exact"),
+                &mf,
+                &Config::default().hazards(HazardMode::None).budget(budget),
+                HazardMode::None,
+            );
+            run(
+                &format!("n={n} cubes={c} seed={seed} static fast "),
                 &mf,
                 &Config::default()
                     .hazards(HazardMode::Static)
                     .effort(Effort::Fast),
                 HazardMode::Static,
             );
+        }
+    }
+    for p_on in [10u64, 20] {
+        for seed in 0..seeds {
+            let n = 16;
+            let (on, dc) = random_minterms(n, seed, p_on, 5);
+            let f = Function::from_minterms(n, &on, &dc, vec![]).unwrap();
+            let mf = MultiFunction::single(vars(n), "f", f);
             run(
-                &format!("n={n} seed={seed} cubes none exact"),
+                &format!("n=16 on={p_on}% seed={seed} none   exact"),
                 &mf,
                 &Config::default().hazards(HazardMode::None).budget(budget),
                 HazardMode::None,
             );
         }
-    }
-    for seed in 0..seeds {
-        let n = 16;
-        let (on, dc) = random_minterms(n, seed, 45, 10);
-        let f = Function::from_minterms(n, &on, &dc, vec![]).unwrap();
-        let mf = MultiFunction::single(vars(n), "f", f);
-        run(
-            &format!("n=16 seed={seed} minterms none exact"),
-            &mf,
-            &Config::default().hazards(HazardMode::None).budget(budget),
-            HazardMode::None,
-        );
     }
 }

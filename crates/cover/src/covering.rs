@@ -142,7 +142,14 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
     };
     let feasible = s.reduce(&mut root);
     debug_assert!(feasible);
-    let core = (root.rows.len(), count(&root.mask) as usize);
+    let core = (
+        root.rows.len(),
+        if root.rows.is_empty() {
+            0
+        } else {
+            count(&root.mask) as usize
+        },
+    );
     let sub = s.exact(root);
     let mut cols = sub.cols;
     cols.sort_unstable();

@@ -5,7 +5,7 @@
 //! constrained irredundant pass). Heuristic: no optimality claim; a lower bound from
 //! pairwise incompatible points is reported so the gap is known.
 
-use crate::algebra::{covers_cube, intersect, scc, sharp, split};
+use crate::algebra::{complement, covers_cube, intersect, scc, sharp, split, tautology};
 use crate::cube::Cube;
 use crate::hazard::OutputSpec;
 use crate::{Config, OutputCover, Solution, Stats};
@@ -130,23 +130,24 @@ fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: Option<&[Vec<Cube>]>) {
     let mut i = 0;
     while i < f.len() {
         let c = f[i];
-        let others: Vec<Cube> = f
-            .iter()
-            .enumerate()
-            .filter(|&(k, _)| k != i)
-            .map(|(_, d)| *d)
-            .collect();
-        let mut rest = others.clone();
-        rest.extend_from_slice(&s.dc);
-        let mut removable = covers_cube(&rest, &c);
+        let mut removable = tautology(&rest_cofactor(f, i, &s.dc, &c));
+        let others = || -> Vec<Cube> {
+            f.iter()
+                .enumerate()
+                .filter(|&(k, _)| k != i)
+                .map(|(_, d)| *d)
+                .collect()
+        };
         if removable {
-            removable = s
-                .required
-                .iter()
-                .all(|r| !c.contains(&r.cube) || others.iter().any(|d| d.contains(&r.cube)));
+            removable = s.required.iter().all(|r| {
+                !c.contains(&r.cube)
+                    || f.iter()
+                        .enumerate()
+                        .any(|(k, d)| k != i && d.contains(&r.cube))
+            });
         }
         if let (true, Some(edges)) = (removable, pairs) {
-            removable = pairs_held_without(&c, &others, edges);
+            removable = pairs_held_without(&c, &others(), edges);
         }
         if removable {
             f.remove(i);
@@ -199,22 +200,39 @@ fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>, all_edges: &[Vec<Cube>]) {
     scc(f);
 }
 
+/// The cofactor by `c` of every cube of `f` but `f[skip]`, plus the don't-cares.
+fn rest_cofactor(f: &[Cube], skip: usize, dc: &[Cube], c: &Cube) -> Vec<Cube> {
+    let drop = !c.care_bits();
+    f.iter()
+        .enumerate()
+        .filter(|&(k, d)| k != skip && d.intersects(c))
+        .map(|(_, d)| d)
+        .chain(dc.iter().filter(|d| d.intersects(c)))
+        .map(|d| Cube::from_words(d.care_bits() & drop, d.value_bits()))
+        .collect()
+}
+
+/// The points of `c` held by no other cube of `f` and no don't-care, as cubes.
+fn only_in(f: &[Cube], skip: usize, dc: &[Cube], c: &Cube, nvars: usize) -> Vec<Cube> {
+    let cof = rest_cofactor(f, skip, dc, c);
+    complement(&cof, nvars)
+        .iter()
+        .filter_map(|p| p.intersection(c))
+        .collect()
+}
+
 /// Shrinks each product to the smallest cube holding what only it covers.
 fn reduce(s: &OutputSpec, f: &mut [Cube]) {
     for i in 0..f.len() {
         let c = f[i];
-        let mut rest: Vec<Cube> = f
-            .iter()
-            .enumerate()
-            .filter(|&(k, _)| k != i)
-            .map(|(_, d)| *d)
-            .collect();
-        let others = rest.clone();
-        rest.extend_from_slice(&s.dc);
-        let only = sharp(&[c], &rest);
-        let mut pieces = only;
+        let mut pieces = only_in(f, i, &s.dc, &c, s.nvars);
         for r in &s.required {
-            if c.contains(&r.cube) && !others.iter().any(|d| d.contains(&r.cube)) {
+            if c.contains(&r.cube)
+                && !f
+                    .iter()
+                    .enumerate()
+                    .any(|(k, d)| k != i && d.contains(&r.cube))
+            {
                 pieces.push(r.cube);
             }
         }
@@ -266,14 +284,7 @@ pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
     };
     let mut items: Vec<Cube> = s.required.iter().map(|r| r.cube).collect();
     for (i, c) in cover.iter().enumerate() {
-        let mut rest: Vec<Cube> = cover
-            .iter()
-            .enumerate()
-            .filter(|&(k, _)| k != i)
-            .map(|(_, d)| *d)
-            .collect();
-        rest.extend_from_slice(&s.dc);
-        let only = sharp(&[*c], &rest);
+        let only = only_in(cover, i, &s.dc, c, s.nvars);
         if let Some(p) = only.first() {
             items.push(Cube::from_words(crate::cube::mask(s.nvars), p.value_bits()));
             continue;
