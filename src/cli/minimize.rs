@@ -3,6 +3,7 @@
 use super::args::{Effort as ArgEffort, Hazards, MinimizeArgs};
 use super::{print_json, read_input, CliError, CliResult};
 use serde_json::{json, Map, Value};
+use std::io::IsTerminal;
 use std::time::Duration;
 use stillpoint_cover::{
     expression, file, minimize, verify, Config, CoverError, Cube, Effort, HazardMode,
@@ -65,7 +66,25 @@ pub fn run_minimize(args: &MinimizeArgs) -> CliResult {
     } else {
         mode
     };
-    match minimize(&f, &cfg) {
+    // A progress line while an exact search may run long (only on a terminal).
+    let progress = cfg.effort_level() == Effort::Exact && std::io::stderr().is_terminal();
+    if progress {
+        eprint!(
+            "minimising {} ({} variables, exact, budget {} s)...",
+            if f.outputs.len() == 1 {
+                "1 output".to_string()
+            } else {
+                format!("{} outputs", f.outputs.len())
+            },
+            f.vars.len(),
+            args.common.budget
+        );
+    }
+    let result = minimize(&f, &cfg);
+    if progress {
+        eprint!("\r\x1b[2K");
+    }
+    match result {
         Ok(sol) => {
             let checked = verify::check(&f, &sol, judge);
             report(args, &f, &sol, mode, judge, &checked);
