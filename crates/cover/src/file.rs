@@ -365,10 +365,18 @@ fn build(vars: Vec<String>, raws: Vec<RawOutput>) -> Result<MultiFunction, FileE
                 }
             }
         }
-        let on: Vec<Cube> = raw.on.iter().map(|(e, _)| as_cube(e)).collect();
-        let dc: Vec<Cube> = raw.dc.iter().map(|(e, _)| as_cube(e)).collect();
         let ts: Vec<Transition> = raw.transitions.iter().map(|(t, _)| *t).collect();
-        let f = Function::from_cubes(n, on, dc, ts).map_err(|e| match &e {
+        let built = if all_minterms {
+            let num = |e: &Entry| if let Entry::Minterm(m) = e { *m } else { 0 };
+            let on: Vec<u64> = raw.on.iter().map(|(e, _)| num(e)).collect();
+            let dc: Vec<u64> = raw.dc.iter().map(|(e, _)| num(e)).collect();
+            Function::from_minterms(n, &on, &dc, ts)
+        } else {
+            let on: Vec<Cube> = raw.on.iter().map(|(e, _)| as_cube(e)).collect();
+            let dc: Vec<Cube> = raw.dc.iter().map(|(e, _)| as_cube(e)).collect();
+            Function::from_cubes(n, on, dc, ts)
+        };
+        let f = built.map_err(|e| match &e {
             CoverError::BadTransition { transition, .. } => {
                 let pos = raw
                     .transitions
@@ -507,11 +515,11 @@ pub fn parse_text(src: &str) -> Result<MultiFunction, FileError> {
                                 format!("empty range {t}: {lo} is above {hi}"),
                             ));
                         }
-                        if hi - lo > (1 << 24) {
+                        if hi - lo >= (1 << 20) {
                             return Err(FileError::lc(
                                 ln,
                                 c,
-                                format!("range {t} is too long (more than 2^24 minterms)"),
+                                format!("range {t} is too long (more than 2^20 minterms; give cubes in the JSON form instead)"),
                             ));
                         }
                         for m in lo..=hi {

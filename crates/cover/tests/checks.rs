@@ -235,3 +235,45 @@ fn wide_function_from_cubes() {
         verify::check(&mf, &s, HazardMode::Static).unwrap();
     }
 }
+
+#[test]
+fn constant_functions() {
+    // common practice, no source: the empty cover for 0, the universal cube for 1.
+    for effort in [Effort::Exact, Effort::Fast] {
+        for mode in [HazardMode::None, HazardMode::Static, HazardMode::Full] {
+            let zero = single(3, &[], &[1, 2], vec![]);
+            let s = minimize(&zero, &cfg(mode).effort(effort)).unwrap();
+            assert_eq!(s.cube_count, 0);
+            assert!(s.optimal);
+            let one = single(
+                3,
+                &[0, 1, 2, 3, 4, 5, 6],
+                &[7],
+                vec![Transition { start: 0, end: 6 }],
+            );
+            let s = minimize(&one, &cfg(mode).effort(effort)).unwrap();
+            assert_eq!(strs(&s.products, 3), ["---"]);
+            verify::check(&one, &s, mode).unwrap();
+            let none = single(0, &[0], &[], vec![]);
+            let s = minimize(&none, &cfg(mode).effort(effort)).unwrap();
+            assert_eq!(s.cube_count, 1);
+        }
+    }
+}
+
+#[test]
+fn bad_input_is_an_error_not_a_panic() {
+    use stillpoint_cover::Function;
+    assert!(Function::from_minterms(3, &[8], &[], vec![]).is_err());
+    assert!(Function::from_minterms(3, &[1], &[1], vec![]).is_err());
+    assert!(Function::from_minterms(65, &[], &[], vec![]).is_err());
+    assert!(Function::from_minterms(3, &[1], &[2], vec![Transition { start: 1, end: 2 }]).is_err());
+    assert!(Function::from_minterms(3, &[1], &[], vec![Transition { start: 1, end: 1 }]).is_err());
+    assert!(Cube::parse("10x").is_err());
+    let f = Function::from_minterms(3, &[1], &[], vec![]).unwrap();
+    let mf = stillpoint_cover::MultiFunction {
+        vars: crate::common::vars(2),
+        outputs: vec![("f".into(), f)],
+    };
+    assert!(minimize(&mf, &Config::default()).is_err());
+}

@@ -211,3 +211,22 @@ fn all_legal_products(
         stats: Default::default(),
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 200, ..ProptestConfig::default() })]
+
+    #[test]
+    fn function_files_never_panic(src in "[ -~\n]{0,80}", body in "[0-9a-z .,:\\[\\]{}\"\n-]{0,60}") {
+        // Bad input is an error with a position, never a panic.
+        let _ = stillpoint_cover::file::parse_text(&src);
+        let _ = stillpoint_cover::file::parse_json(&src);
+        let text = format!("vars a b c\n{body}");
+        if let Err(e) = stillpoint_cover::file::parse_text(&text) {
+            prop_assert!(e.line >= 1 && e.col >= 1);
+        }
+        let json = format!("{{\"vars\": [\"a\", \"b\"], {body}}}");
+        if let Err(e) = stillpoint_cover::file::parse_json(&json) {
+            prop_assert!(e.line >= 1 && e.col >= 1);
+        }
+    }
+}
