@@ -185,10 +185,6 @@ fn report(
                     .collect::<Vec<_>>()),
             );
         }
-        top.insert(
-            "milliseconds".into(),
-            json!(sol.stats.elapsed.as_millis() as u64),
-        );
         print_json(&Value::Object(top));
         return;
     }
