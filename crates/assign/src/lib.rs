@@ -204,7 +204,8 @@ impl AssignConfig {
 
     /// How many distinct codes of the returned width to give, for ranking by logic cost
     /// (the first is [`Assignment::codes`], the others [`Assignment::alternatives`]).
-    /// Only the `tracey` method finds several. [default: 1] [range: >= 1]
+    /// Only the `tracey` method finds several: other minimum covers first, then other
+    /// fillings of the free bits (all 0, all 1). [default: 1] [range: >= 1]
     pub fn alternatives(mut self, count: usize) -> Self {
         self.alternatives = count.max(1);
         self
@@ -425,6 +426,21 @@ pub(crate) fn assign_problem(
                     all.push(c);
                 }
             }
+            // More alternatives from other fillings of the free bits.
+            for cls in &classes {
+                for rule in [tracey::Fill::Zero, tracey::Fill::One] {
+                    if all.len() >= cfg.alternatives {
+                        break;
+                    }
+                    let mut cls = cls.clone();
+                    cls.resize(width, dichotomy::Dichotomy { left: 0, right: 0 });
+                    let c = Codes::new(width, tracey::fill_with(p, &cls, rule))?;
+                    if !all.contains(&c) {
+                        all.push(c);
+                    }
+                }
+            }
+            all.truncate(cfg.alternatives.max(1));
             let codes = all.remove(0);
             let mut a = make(
                 cfg.method,

@@ -248,6 +248,7 @@ impl<'a> Search<'a> {
         let can_open = self.cls.len() < self.width;
         let mut best: Option<(usize, u32)> = None;
         let mut dead = false;
+        let mut orphans: Vec<Dichotomy> = Vec::new();
         for &i in &list {
             let d = self.ds[i as usize];
             let mut opts = 0usize;
@@ -262,6 +263,9 @@ impl<'a> Search<'a> {
             if is_cov {
                 continue;
             }
+            if opts == 0 && orphans.len() < 48 {
+                orphans.push(d);
+            }
             opts += usize::from(can_open);
             next.push(i);
             if opts == 0 {
@@ -273,6 +277,20 @@ impl<'a> Search<'a> {
             }
         }
         std::mem::swap(&mut list, &mut self.lists[depth]);
+        // Dichotomies that fit no open variable need new ones; pairwise incompatible
+        // ones need one each.
+        if !dead && orphans.len() > 1 {
+            let room = self.width - self.cls.len();
+            let mut clique: Vec<Dichotomy> = Vec::new();
+            for &o in &orphans {
+                if clique.iter().all(|&c| !c.compatible_unordered(o)) {
+                    clique.push(o);
+                }
+            }
+            if clique.len() > room {
+                dead = true;
+            }
+        }
         if dead {
             self.put_back(depth, next);
             return false;
@@ -334,6 +352,22 @@ impl<'a> Search<'a> {
 /// each free bit takes the value most of its transition partners have (0 on a tie).
 /// Returns one code per state, `y1` = first class = most significant bit.
 pub(crate) fn fill(p: &Problem, cls: &[Dichotomy]) -> Vec<u64> {
+    fill_with(p, cls, Fill::Majority)
+}
+
+/// How free bits are filled.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Fill {
+    /// The value most transition partners have (0 on a tie).
+    Majority,
+    /// Always 0.
+    Zero,
+    /// Always 1.
+    One,
+}
+
+/// [`fill`] with a chosen rule (the other rules give alternative codes).
+pub(crate) fn fill_with(p: &Problem, cls: &[Dichotomy], rule: Fill) -> Vec<u64> {
     let n = p.num_states;
     let k = cls.len();
     let edges = p.transition_edges();
@@ -362,7 +396,11 @@ pub(crate) fn fill(p: &Problem, cls: &[Dichotomy]) -> Vec<u64> {
                         None => {}
                     }
                 }
-                val[s] = Some(o > z);
+                val[s] = Some(match rule {
+                    Fill::Majority => o > z,
+                    Fill::Zero => false,
+                    Fill::One => true,
+                });
             }
             if val[s] == Some(true) {
                 codes[s] |= mask;
@@ -382,7 +420,9 @@ pub(crate) struct ExactResult {
     pub(crate) clique: usize,
 }
 
-/// Exact minimum width (see the module doc).
+/// Exact minimum width (see the module doc). First the heuristic's width is improved
+/// downward (each width found feasible becomes the new best) for up to half the budget;
+/// then widths are tried upward from the lower bound, each proven infeasible raising it.
 pub(crate) fn exact(
     p: &Problem,
     ds: &[Dichotomy],
@@ -390,58 +430,87 @@ pub(crate) fn exact(
     deadline: Option<Instant>,
     want: usize,
 ) -> ExactResult {
-    let ub_cls = fast(ds, 16);
+    let start = Instant::now();
+    let mut best: Vec<Classes> = vec![fast(ds, 16)];
     let clique = incompatible_clique(ds, 8);
     let mut lb = log2_bound(p.num_states).max(clique.len());
-    let ub = ub_cls.len().max(1);
+    let mut ub = best[0].len().max(1);
     let mut nodes = 0u64;
-    let mut k = lb.min(ub);
-    loop {
+    let result = |classes, lb: usize, ub: usize, nodes| ExactResult {
+        classes,
+        optimal: lb >= ub,
+        lower_bound: lb.min(ub),
+        nodes,
+        clique: clique.len(),
+    };
+    // Downward: improve the upper bound.
+    let half = deadline.map(|d| start + d.saturating_duration_since(start) / 2);
+    while ub > lb {
+        let k = ub - 1;
+        let mut s = Search::new(
+            ds,
+            &clique,
+            k,
+            (node_limit.saturating_sub(nodes)) / 2,
+            half,
+            1,
+        );
+        let out = s.run();
+        nodes += s.nodes;
+        match out {
+            Outcome::Found => {
+                ub = k;
+                best = s.found;
+            }
+            Outcome::Infeasible => {
+                lb = ub;
+            }
+            Outcome::Stopped => break,
+        }
+    }
+    // Upward: prove the lower bound.
+    let mut k = lb;
+    while k < ub {
         let mut s = Search::new(
             ds,
             &clique,
             k,
             node_limit.saturating_sub(nodes),
             deadline,
-            want,
+            1,
         );
         let out = s.run();
         nodes += s.nodes;
         match out {
             Outcome::Found => {
-                return ExactResult {
-                    classes: s.found,
-                    lower_bound: k,
-                    optimal: true,
-                    nodes,
-                    clique: clique.len(),
-                }
+                // Only when the downward phase stopped early: k is the optimum.
+                best = s.found;
+                lb = k;
+                ub = k;
             }
             Outcome::Infeasible => {
-                lb = lb.max(k + 1);
+                lb = k + 1;
                 k += 1;
-                if k > ub {
-                    // Cannot happen: the heuristic cover has width ub.
-                    return ExactResult {
-                        classes: vec![ub_cls],
-                        lower_bound: ub,
-                        optimal: true,
-                        nodes,
-                        clique: clique.len(),
-                    };
-                }
             }
-            Outcome::Stopped => {
-                return ExactResult {
-                    optimal: lb >= ub,
-                    lower_bound: lb.min(ub),
-                    classes: vec![ub_cls],
-                    nodes,
-                    clique: clique.len(),
-                }
-            }
+            Outcome::Stopped => return result(best, lb, ub, nodes),
         }
     }
+    // lb == ub: the best cover is optimal; collect alternatives if asked and not yet done.
+    if want > best.len() && nodes < node_limit {
+        let mut s = Search::new(
+            ds,
+            &clique,
+            ub,
+            node_limit.saturating_sub(nodes),
+            deadline,
+            want,
+        );
+        if s.run() == Outcome::Found && s.found.len() > best.len() {
+            best = s.found;
+        }
+        nodes += s.nodes;
+    }
+    result(best, lb, ub, nodes)
 }
 
 #[cfg(test)]
