@@ -203,10 +203,15 @@ impl Search<'_> {
         }
         let lb = n.cost + self.mis_bound(&n.rows);
         let mut best = self.greedy(&n);
+        let mut bound = lb;
         if !self.stopped && best.0 > lb {
-            self.branch(n, &mut best);
+            bound = self.branch(n, &mut best, lb).max(lb);
         }
-        let lb = if self.stopped { lb.min(best.0) } else { best.0 };
+        let lb = if self.stopped {
+            bound.min(best.0)
+        } else {
+            best.0
+        };
         Sub {
             cost: best.0,
             cols: best.1,
@@ -488,40 +493,46 @@ impl Search<'_> {
         (cost, chosen)
     }
 
-    fn branch(&mut self, mut n: Node, best: &mut (u64, Vec<usize>)) {
+    /// Searches the subtree of `n`, improving `best`; returns a proven lower bound on
+    /// every cover in the subtree (`floor` is one known from above, used for the parts
+    /// left unexplored when the budget stops the search).
+    fn branch(&mut self, mut n: Node, best: &mut (u64, Vec<usize>), floor: u64) -> u64 {
         if self.stopped {
-            return;
+            return floor;
         }
         self.nodes += 1;
         if self.nodes > self.limits.node_limit || Instant::now() >= self.limits.deadline {
             self.stopped = true;
-            return;
+            return floor;
         }
         if !self.reduce(&mut n) {
-            return;
+            return u64::MAX;
         }
         if n.rows.is_empty() {
             if n.cost < best.0 {
                 *best = (n.cost, n.chosen.clone());
             }
-            return;
+            return n.cost;
         }
-        if n.cost + self.mis_bound(&n.rows) >= best.0 {
-            return;
+        let lb = (n.cost + self.mis_bound(&n.rows)).max(floor);
+        if lb >= best.0 {
+            return lb;
         }
         let comps = self.components(&n);
         if comps.len() > 1 {
             let mut cost = n.cost;
+            let mut bound = n.cost;
             let mut cols = n.chosen.clone();
             for c in comps {
                 let s = self.exact(c);
                 cost = cost.saturating_add(s.cost);
+                bound = bound.saturating_add(s.lb);
                 cols.extend(s.cols);
             }
             if cost < best.0 {
                 *best = (cost, cols);
             }
-            return;
+            return bound.max(lb);
         }
         // Branch on the columns of the shortest row, most covering first.
         let ri = (0..n.rows.len())
@@ -536,6 +547,7 @@ impl Search<'_> {
                 .then(a.0.cmp(&b.0))
         });
         let cols: Vec<usize> = keyed.into_iter().map(|(c, _)| c).collect();
+        let mut sub_min = u64::MAX;
         for (k, &c) in cols.iter().enumerate() {
             let mut mask = n.mask.clone();
             for &prev in &cols[..k] {
@@ -551,11 +563,17 @@ impl Search<'_> {
                 chosen,
                 cost: n.cost + self.cost[c],
             };
-            self.branch(child, best);
+            let b = self.branch(child, best, lb);
+            sub_min = sub_min.min(b);
             if self.stopped {
-                return;
+                // Siblings not yet searched are bounded by this node's bound.
+                if k + 1 < cols.len() {
+                    sub_min = sub_min.min(lb);
+                }
+                return sub_min.max(lb);
             }
         }
+        sub_min.max(lb)
     }
 }
 
