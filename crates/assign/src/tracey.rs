@@ -4,7 +4,7 @@
 //! machines", IEEE Trans. Electronic Computers EC-15(4), 1966; the steps follow
 //! methods.md §4.2.
 //!
-//! **Exact** ([`exact`]): the minimum number of variables is the fewest compatible sets
+//! **Exact** ([`Method::Tracey`](crate::Method::Tracey)): the minimum number of variables is the fewest compatible sets
 //! of required dichotomies whose merged dichotomies cover every required one. Every
 //! compatible set extends to a maximal compatible, so this equals the minimum unate cover
 //! by maximal compatibles of §4.2 step 5; instead of listing the (possibly millions of)
@@ -13,11 +13,14 @@
 //! variables first, as in DSATUR colouring). Symmetry breaking: variables are
 //! interchangeable and so are their polarities, so a clique of pairwise incompatible
 //! dichotomies is pre-placed one per variable, and a dichotomy opening a new variable
-//! takes one orientation only. Widths are tried upward from the proven lower bound, so
-//! each width proven infeasible raises the bound; when the budget stops the search the
-//! best code found is returned with `optimal = false` and that bound.
+//! takes one orientation only; a branch ends when dichotomies that fit no open variable
+//! include more pairwise incompatible ones than variables are left to open. The
+//! heuristic's width is first improved downward (half the budget), then widths are tried
+//! upward from the proven lower bound, so each width proven infeasible raises the bound;
+//! when the budget stops the search the best code found is returned with
+//! `optimal = false` and that bound.
 //!
-//! **Heuristic** ([`fast`]): first-fit packing of the dichotomies into variables, in a
+//! **Heuristic** ([`Method::TraceyFast`](crate::Method::TraceyFast)): first-fit packing of the dichotomies into variables, in a
 //! few deterministic orders, keeping the narrowest; its gap to the lower bound is reported.
 //! Weakness: first-fit is not optimal; on hard tables it may use a few extra variables.
 //!

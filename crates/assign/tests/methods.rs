@@ -203,3 +203,20 @@ fn measure() {
         }
     }
 }
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(64))]
+    /// Every method's result passes its independent checker on arbitrary normal tables,
+    /// and no method beats the exact width.
+    #[test]
+    fn checkers_accept_every_result(t in stillpoint_table::testing::arb_normal_table(9, 3)) {
+        let exact = checked(&t, Method::Tracey).unwrap();
+        for m in ALL {
+            if let Some(a) = checked(&t, m) {
+                if !a.multi_step {
+                    proptest::prop_assert!(a.codes.width() >= exact.codes.width());
+                }
+            }
+        }
+    }
+}
