@@ -275,8 +275,11 @@ impl<'a> Search<'a> {
                 dead = true;
                 break;
             }
-            if best.map_or(true, |b| opts < b.0) {
-                best = Some((opts, i));
+            // Fewest choices first; among equals the dichotomy with more states.
+            let size = (d.left | d.right).count_ones() as usize;
+            let key = opts * 8 + (7 - size.min(7));
+            if best.map_or(true, |b| key < b.0) {
+                best = Some((key, i));
             }
         }
         std::mem::swap(&mut list, &mut self.lists[depth]);
