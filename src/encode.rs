@@ -25,8 +25,9 @@
 //! **Listed transitions** (for the hazard-free minimiser): each total-state transition
 //! of the change mode from the stable `(x, c_s)` to input `x'` gives `(x, c_s) -> (x', c_s)`
 //! (the input change, state held) and then the state moves: `(x', c_s) -> (x', c_t)`
-//! (one-hot: two steps). A transition is listed for a function when both its end points
-//! are specified for that function.
+//! (one-hot: its two steps, and the whole move from `c_s` to `c_t` as one transition, since
+//! the gates may see the two steps overlap). A transition is listed for a function when
+//! both its end points are specified for that function.
 
 use crate::sim::TransitionCheck;
 use serde::Serialize;
@@ -186,6 +187,7 @@ impl Encoding {
             dest: cbits(t.dest),
             outputs_before: outs(t.from, t.state),
             outputs_after: outs(t.to, t.dest),
+            outputs_mid: outs(t.to, t.state),
         }
     }
 }
@@ -232,6 +234,22 @@ pub fn encode(
     table: &FlowTable,
     assignment: &Assignment,
     mode: ChangeMode,
+) -> Result<Encoding, EncodeError> {
+    encode_with(table, assignment, mode, true)
+}
+
+/// [`encode`], choosing whether a multi-step move (one-hot) is also listed whole. Listing
+/// it whole protects against the gates seeing the steps overlap, but can ask an unused
+/// code to be 1 for one transition and 0 for another, leaving no hazard-free cover; the
+/// pipeline then falls back to listing the steps only (and says so).
+///
+/// # Errors
+/// As [`encode`].
+pub fn encode_with(
+    table: &FlowTable,
+    assignment: &Assignment,
+    mode: ChangeMode,
+    whole_moves: bool,
 ) -> Result<Encoding, EncodeError> {
     let codes = &assignment.codes;
     if codes.len() != table.num_states() {
@@ -322,9 +340,14 @@ pub fn encode(
         if tt.dest != tt.state {
             reached.insert((tt.state, tt.to));
             let path = assignment.path(table, tt.state, tt.to);
+            let xv = table.column_value(tt.to);
             for w in path.windows(2) {
-                let xv = table.column_value(tt.to);
                 listed.insert((pt(xv, w[0]) as u64, pt(xv, w[1]) as u64));
+            }
+            // A multi-step move (one-hot) is also listed whole: each bit changes once
+            // along it, and the gates may see the steps overlap.
+            if whole_moves && path.len() > 2 {
+                listed.insert((pt(xv, path[0]) as u64, pt(xv, path[path.len() - 1]) as u64));
             }
         }
         transitions.push(CodedTransition {

@@ -8,6 +8,7 @@ pub use stillpoint_table as table;
 
 pub mod encode;
 pub mod network;
+pub mod report;
 pub mod pictures;
 pub mod sim;
 pub mod synth;

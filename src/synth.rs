@@ -9,7 +9,7 @@
 //! Eichelberger ternary simulation ([`crate::sim`]) of every total-state transition of the
 //! change mode on the gate network with its feedback.
 
-use crate::encode::{encode, CodedTransition, EncodeError, Encoding};
+use crate::encode::{encode, encode_with, CodedTransition, EncodeError, Encoding};
 use crate::network::{Literal, Network, NetworkError, Product};
 use crate::sim::{check_transition, DelayModel, Problem, ProblemKind, TransitionCheck};
 use serde::Serialize;
@@ -425,8 +425,27 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
                 continue;
             }
         };
-        let sol = match minimize(&enc.functions, &ccfg) {
-            Ok(s) => s,
+        let (enc, sol) = match minimize(&enc.functions, &ccfg) {
+            Ok(s) => (enc, s),
+            Err(e) if a.multi_step => {
+                // retry with the steps of each move listed separately
+                let retry = encode_with(&coded, &a, cfg.changes, false)
+                    .map_err(SynthError::from)
+                    .and_then(|enc| Ok((minimize(&enc.functions, &ccfg)?, enc)));
+                match retry {
+                    Ok((s, enc)) => {
+                        warnings.push(format!(
+                            "multi-step moves listed step by step only ({e}); the simulation \
+                             checks whether the steps may overlap"
+                        ));
+                        (enc, s)
+                    }
+                    Err(e2) => {
+                        first_err.get_or_insert(e2);
+                        continue;
+                    }
+                }
+            }
             Err(e) => {
                 first_err.get_or_insert(SynthError::from(e));
                 continue;

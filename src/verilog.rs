@@ -12,8 +12,10 @@
 //! netlist, `<module>_timed`, in which every gate's output passes through a transport delay
 //! drawn from the `SEED` parameter with `$random`: 1 unit for gates fed only by primary
 //! inputs (the input inverters), 1 to 9 units for every other gate, and every feedback
-//! net `y_i` reaches the logic `FEEDBACK_DELAY` (default 20) units after the gate that
-//! drives it, longer than the slowest path from an input through the logic (1 + 9 + 9).
+//! net `y_i` reaches the logic between `FEEDBACK_DELAY` and twice that (default 20 to 40,
+//! drawn per variable) after the gate that drives it: longer than the slowest path from
+//! an input through the logic (1 + 9 + 9), and different per variable so that the state
+//! variables really race.
 //! That is the delay model the ternary verification uses by default
 //! ([`crate::sim::DelayModel::FeedbackDelay`]). The bench module `<module>_tb` starts the
 //! design in each stable state of each transition by forcing the `y` nets, checks the state
@@ -341,6 +343,9 @@ struct Names {
     internal: Vec<NetId>,
     ports_out: Vec<String>,
     taken: BTreeSet<String>,
+    /// Instance names of the gates and of the extra buffers (they share the net namespace).
+    inst: Vec<String>,
+    buf_inst: Vec<String>,
 }
 
 impl Names {
@@ -364,6 +369,8 @@ fn names(net: &Network) -> Names {
         internal: Vec::new(),
         ports_out: Vec::new(),
         taken: BTreeSet::new(),
+        inst: Vec::new(),
+        buf_inst: Vec::new(),
     };
     for &i in net.inputs() {
         n.name[i.index()] = net.net_name(i).to_string();
@@ -415,6 +422,14 @@ fn names(net: &Network) -> Names {
             n.name[id.index()] = v;
             n.internal.push(id);
         }
+    }
+    for g in 0..net.gates().len() {
+        let v = n.fresh(&format!("g{g}"));
+        n.inst.push(v);
+    }
+    for b in 0..n.bufs.len() {
+        let v = n.fresh(&format!("b{b}"));
+        n.buf_inst.push(v);
     }
     n
 }
@@ -494,10 +509,15 @@ pub fn netlist(net: &Network, module: &str, header: &Header) -> Result<String, V
                 a.join(", ")
             }
         };
-        let _ = writeln!(out, "  {} g{g} ({args});", gate.kind().primitive());
+        let _ = writeln!(out, "  {} {} ({args});", gate.kind().primitive(), n.inst[g]);
     }
     for (b, (port, src)) in n.bufs.iter().enumerate() {
-        let _ = writeln!(out, "  buf b{b} ({port}, {});", n.name[src.index()]);
+        let _ = writeln!(
+            out,
+            "  buf {} ({port}, {});",
+            n.buf_inst[b],
+            n.name[src.index()]
+        );
     }
     out.push_str("endmodule\n");
     Ok(out)
@@ -561,6 +581,7 @@ pub fn testbench(
     let t: Vec<String> = (0..g_count).map(|g| n.fresh(&format!("t{g}"))).collect();
     let d: Vec<String> = (0..g_count).map(|g| n.fresh(&format!("d{g}"))).collect();
     let fbn: Vec<String> = (1..=k).map(|i| n.fresh(&format!("y{i}_fb"))).collect();
+    let fbd: Vec<String> = (1..=k).map(|i| n.fresh(&format!("fb{i}"))).collect();
     // The name the logic reads for each net: inputs as is, y_i through the feedback delay,
     // gate outputs as their delayed reg.
     let mut read = n.name.clone();
@@ -586,6 +607,9 @@ pub fn testbench(
         decl(&mut out, "reg", &fbn);
     }
     decl(&mut out, "integer", &d);
+    if !fbd.is_empty() {
+        decl(&mut out, "integer", &fbd);
+    }
     let _ = writeln!(out, "  integer {seedvar};");
     let _ = writeln!(out, "  initial begin");
     let _ = writeln!(out, "    {seedvar} = {seed};");
@@ -595,6 +619,9 @@ pub fn testbench(
         } else {
             let _ = writeln!(out, "    {dg} = 1 + {{$random({seedvar})}} % 9;");
         }
+    }
+    for f in &fbd {
+        let _ = writeln!(out, "    {f} = {fb} + {{$random({seedvar})}} % ({fb} + 1);");
     }
     let _ = writeln!(out, "  end");
     for (gi, g) in net.gates().iter().enumerate() {
@@ -607,7 +634,7 @@ pub fn testbench(
                 a.join(", ")
             }
         };
-        let _ = writeln!(out, "  {} g{gi} ({args});", g.kind().primitive());
+        let _ = writeln!(out, "  {} {} ({args});", g.kind().primitive(), n.inst[gi]);
         let _ = writeln!(
             out,
             "  always @({}) {} <= #({}) {};",
@@ -623,7 +650,7 @@ pub fn testbench(
         let _ = writeln!(out, "  assign {port} = {};", read[src.index()]);
     }
     for (i, y) in ys.iter().enumerate() {
-        let _ = writeln!(out, "  always @({y}) {} <= #({fb}) {y};", fbn[i]);
+        let _ = writeln!(out, "  always @({y}) {} <= #({}) {y};", fbn[i], fbd[i]);
     }
     out.push_str("endmodule\n\n");
 
@@ -673,20 +700,24 @@ pub fn testbench(
             format!("[{}:0] ", len - 1)
         }
     };
+    let [a_id, a_from, a_to, a_start, a_dest, a_ob, a_obm, a_oa, a_oam] = [
+        "id", "from", "to", "start", "dest", "ob", "obm", "oa", "oam",
+    ]
+    .map(|b| n.fresh(&format!("tr_{b}")));
     let _ = writeln!(out, "\n  task {task};");
-    let _ = writeln!(out, "    input integer id;");
-    let _ = writeln!(out, "    input {}from, to;", w(ni));
+    let _ = writeln!(out, "    input integer {a_id};");
+    let _ = writeln!(out, "    input {}{a_from}, {a_to};", w(ni));
     if k > 0 {
-        let _ = writeln!(out, "    input {}start, dest;", w(k));
+        let _ = writeln!(out, "    input {}{a_start}, {a_dest};", w(k));
     }
     if no > 0 {
-        let _ = writeln!(out, "    input {}ob, obm, oa, oam;", w(no));
+        let _ = writeln!(out, "    input {}{a_ob}, {a_obm}, {a_oa}, {a_oam};", w(no));
     }
     let _ = writeln!(out, "    begin");
     let _ = writeln!(out, "      {count} = {count} + 1;");
-    let _ = writeln!(out, "      {} = from;", cat(&ins));
+    let _ = writeln!(out, "      {} = {a_from};", cat(&ins));
     for (i, y) in ys.iter().enumerate() {
-        let _ = writeln!(out, "      force dut.{y} = start[{}];", k - 1 - i);
+        let _ = writeln!(out, "      force dut.{y} = {a_start}[{}];", k - 1 - i);
     }
     let _ = writeln!(out, "      #({hold});");
     for y in &ys {
@@ -695,17 +726,17 @@ pub fn testbench(
     let _ = writeln!(out, "      #({settle});");
     let mut conds_start = Vec::new();
     if k > 0 {
-        conds_start.push(format!("{} !== start", cat(&ys)));
+        conds_start.push(format!("{} !== {a_start}", cat(&ys)));
     }
     if no > 0 {
-        conds_start.push(format!("((({} ^ ob) & obm) !== 0)", cat(&outs)));
+        conds_start.push(format!("((({} ^ {a_ob}) & {a_obm}) !== 0)", cat(&outs)));
     }
     if !conds_start.is_empty() {
         let _ = writeln!(out, "      if ({}) begin", conds_start.join(" || "));
         let _ = writeln!(out, "        {errors} = {errors} + 1;");
         let _ = writeln!(
             out,
-            "        $display(\"FAIL transition %0d: start state not stable (state %b, outputs %b)\", id, {}, {});",
+            "        $display(\"FAIL transition %0d: start state not stable (state %b, outputs %b)\", {a_id}, {}, {});",
             if k > 0 { cat(&ys) } else { "1'b0".into() },
             if no > 0 { cat(&outs) } else { "1'b0".into() }
         );
@@ -715,25 +746,29 @@ pub fn testbench(
         let _ = writeln!(out, "      {c} = 0;");
     }
     let _ = writeln!(out, "      {armed} = 1;");
-    let _ = writeln!(out, "      {} = to;", cat(&ins));
+    let _ = writeln!(out, "      {} = {a_to};", cat(&ins));
     let _ = writeln!(out, "      #({settle});");
     let _ = writeln!(out, "      {armed} = 0;");
     if k > 0 {
-        let _ = writeln!(out, "      if ({} !== dest) begin", cat(&ys));
+        let _ = writeln!(out, "      if ({} !== {a_dest}) begin", cat(&ys));
         let _ = writeln!(out, "        {errors} = {errors} + 1;");
         let _ = writeln!(
             out,
-            "        $display(\"FAIL transition %0d: state %b, expected %b\", id, {}, dest);",
+            "        $display(\"FAIL transition %0d: state %b, expected %b\", {a_id}, {}, {a_dest});",
             cat(&ys)
         );
         let _ = writeln!(out, "      end");
     }
     if no > 0 {
-        let _ = writeln!(out, "      if ((({} ^ oa) & oam) !== 0) begin", cat(&outs));
+        let _ = writeln!(
+            out,
+            "      if ((({} ^ {a_oa}) & {a_oam}) !== 0) begin",
+            cat(&outs)
+        );
         let _ = writeln!(out, "        {errors} = {errors} + 1;");
         let _ = writeln!(
             out,
-            "        $display(\"FAIL transition %0d: outputs %b, expected %b (mask %b)\", id, {}, oa, oam);",
+            "        $display(\"FAIL transition %0d: outputs %b, expected %b (mask %b)\", {a_id}, {}, {a_oa}, {a_oam});",
             cat(&outs)
         );
         let _ = writeln!(out, "      end");
@@ -741,12 +776,12 @@ pub fn testbench(
             let bit = no - 1 - j;
             let _ = writeln!(
                 out,
-                "      if (obm[{bit}] && oam[{bit}] && {c} > (ob[{bit}] != oa[{bit}])) begin"
+                "      if ({a_obm}[{bit}] && {a_oam}[{bit}] && {c} > ({a_ob}[{bit}] != {a_oa}[{bit}])) begin"
             );
             let _ = writeln!(out, "        {errors} = {errors} + 1;");
             let _ = writeln!(
                 out,
-                "        $display(\"FAIL transition %0d: output {o} changed %0d times\", id, {c});"
+                "        $display(\"FAIL transition %0d: output {o} changed %0d times\", {a_id}, {c});"
             );
             let _ = writeln!(out, "      end");
         }

@@ -5,3 +5,6 @@ mod pictures;
 
 // Malformed input, limits, determinism, budgets, fuzz regressions (issue 7).
 mod robustness;
+
+// The whole pipeline: corpus and random tables, Icarus test benches, negative tests (issue 5).
+mod synth;
