@@ -331,6 +331,28 @@ fn library_verdict(row: &Row) -> LibVerdict {
                 Err(e) => Ok((e.line(), e.column(), e.message().to_string())),
             })
         }
+        "minimize" => {
+            let r = no_panic(&row.file, || stillpoint::cover::file::parse(&src, json));
+            Some(match r {
+                Ok(f) => Err(format!("accepted: {} variables", f.vars.len())),
+                Err(e) => Ok((e.line, e.col, e.message)),
+            })
+        }
+        "races" => {
+            let base = std::fs::read_to_string(bad_dir().join("base/codes-base.flow"))
+                .expect("read the base table");
+            let table = stillpoint::table::parse_text(&base).expect("the base table parses");
+            let r = no_panic(&row.file, || {
+                stillpoint::assign::Codes::parse(&src, json, &table)
+            });
+            Some(match r {
+                Ok(c) => Err(format!("accepted: {} codes", c.len())),
+                Err(stillpoint::assign::AssignError::Parse { line, col, message }) => {
+                    Ok((line, col, message))
+                }
+                Err(e) => Err(format!("not a located error: {e:?}")),
+            })
+        }
         _ => None,
     }
 }
@@ -483,4 +505,328 @@ fn same_bytes_whatever_the_thread_count() {
     }
     eprintln!("determinism: {ran} commands compared; skipped (not implemented): {skipped:?}");
     assert!(ran > 0);
+}
+
+// ---------------------------------------------------------------------------------------
+// Resource limits and deep recursion.
+// ---------------------------------------------------------------------------------------
+
+/// A small deterministic generator (64-bit LCG, Knuth's MMIX constants; common practice,
+/// no source) so that generated inputs are the same on every run.
+struct Lcg(u64);
+
+impl Lcg {
+    fn next(&mut self) -> u64 {
+        self.0 = self
+            .0
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        self.0 >> 11
+    }
+    fn below(&mut self, n: u64) -> u64 {
+        self.next() % n
+    }
+}
+
+/// Writes `contents` to a fresh file named `name` in a temporary directory.
+fn temp_file(dir: &tempfile::TempDir, name: &str, contents: &str) -> String {
+    let p = dir.path().join(name);
+    std::fs::write(&p, contents).expect("write temp file");
+    p.to_string_lossy().into_owned()
+}
+
+/// A one-input table whose rows form a chain `s0 -> s1 -> ... -> s(n-1)` in column `1`
+/// (the last row stable), every row stable in column `0`.
+fn chain_table(n: usize) -> String {
+    let mut s = String::from("inputs a\noutputs z\n\n    0 1\n");
+    for i in 0..n {
+        let next = if i + 1 < n {
+            format!("s{}/-", i + 1)
+        } else {
+            format!("(s{i})/1")
+        };
+        s.push_str(&format!("s{i} (s{i})/0 {next}\n"));
+    }
+    s
+}
+
+#[test]
+fn ten_thousand_rows_are_refused_with_a_clear_message() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let mut src = String::from("inputs a\n\n    0 1\n");
+    for i in 0..10_000 {
+        src.push_str(&format!("s{i} (s{i}) -\n"));
+    }
+    let path = temp_file(&dir, "rows10000.flow", &src);
+    let out = run(&["check", &path, "--json"]);
+    let (_, _, msg) = located_error(&out, &path).unwrap_or_else(|e| panic!("{e}"));
+    assert!(msg.contains("too many states"), "{msg}");
+}
+
+#[test]
+fn a_4000_row_chain_is_handled_without_deep_recursion() {
+    let src = chain_table(4000);
+    // The library on a small stack: chain following and collapsing must be iterative.
+    let lib_src = src.clone();
+    let handle = std::thread::Builder::new()
+        .stack_size(128 * 1024)
+        .spawn(move || {
+            let t = stillpoint::table::parse_text(&lib_src).expect("parses");
+            let a = stillpoint::table::analyze(&t);
+            let n = stillpoint::table::collapse_chains(&t)
+                .expect("collapses")
+                .num_states();
+            (a.realizable, a.chains.len(), n)
+        })
+        .expect("thread");
+    let (realizable, chains, rows) = handle.join().expect("no stack overflow in the library");
+    assert!(realizable);
+    assert_eq!(rows, 4000);
+    assert!(chains >= 3998, "{chains} chains");
+    // And the binary, for check and for reduce under a budget.
+    let dir = tempfile::tempdir().expect("tempdir");
+    let path = temp_file(&dir, "chain4000.flow", &src);
+    let out = run(&["check", &path, "--json"]);
+    assert_eq!(out.code, Some(0), "check: {}", out.stderr);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("json");
+    assert_eq!(v["states"], 4000);
+    assert_eq!(v["realizable"], true);
+    let out = run(&["reduce", &path, "--json", "--budget", "5"]);
+    eprintln!(
+        "reduce 4000-row chain: exit {:?} in {:?}",
+        out.code, out.elapsed
+    );
+    assert!(
+        !out.timed_out && matches!(out.code, Some(0 | 1)),
+        "reduce: {}",
+        out.stderr
+    );
+}
+
+#[test]
+fn the_largest_header_is_read_and_a_larger_one_refused() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let inputs: Vec<String> = (0..16).map(|i| format!("x{i}")).collect();
+    let head = format!("inputs {}\n\n", inputs.join(" "));
+    // Every one of the 65 536 columns of 16 inputs: accepted.
+    let labels: Vec<String> = (0..1u32 << 16).map(|v| format!("{v:016b}")).collect();
+    let row = vec!["-"; labels.len()].join(" ");
+    let src = format!("{head}{}\nq {row}\n", labels.join(" "));
+    let path = temp_file(&dir, "cols65536.flow", &src);
+    let out = run(&["check", &path, "--json"]);
+    eprintln!(
+        "check with 65536 columns: exit {:?} in {:?}",
+        out.code, out.elapsed
+    );
+    assert!(
+        !out.timed_out && matches!(out.code, Some(0 | 1)),
+        "check: {}",
+        out.stderr
+    );
+    // A header of 100 000 labels must repeat one: refused, located at the first repeat.
+    let mut labels = labels;
+    labels.extend((0..100_000 - (1u32 << 16)).map(|v| format!("{v:016b}")));
+    let src = format!("{head}{}\nq -\n", labels.join(" "));
+    let path = temp_file(&dir, "cols100000.flow", &src);
+    let out = run(&["check", &path, "--json"]);
+    let (line, col, msg) = located_error(&out, &path).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(line, 3, "{msg}");
+    assert_eq!(col, 1 + 17 * (1 << 16), "{msg}");
+    assert!(msg.contains("duplicate column"), "{msg}");
+    // Forty inputs: refused before anything of size 2^40 is made.
+    let forty: Vec<String> = (0..40).map(|i| format!("x{i}")).collect();
+    let src = format!("inputs {}\n\n{}\nq (q)\n", forty.join(" "), "0".repeat(40));
+    let path = temp_file(&dir, "inputs40.flow", &src);
+    let out = run(&["check", &path]);
+    let (_, _, msg) = located_error(&out, &path).unwrap_or_else(|e| panic!("{e}"));
+    assert!(msg.contains("too many inputs"), "{msg}");
+}
+
+/// `vars v0 ... v(n-1)` and an `on` line of `count` distinct random minterms.
+fn scattered_function(n: u32, count: usize, seed: u64) -> String {
+    let mut rng = Lcg(seed);
+    let mut seen = std::collections::BTreeSet::new();
+    while seen.len() < count {
+        seen.insert(rng.below(1 << n));
+    }
+    let vars: Vec<String> = (0..n).map(|i| format!("v{i}")).collect();
+    let on: Vec<String> = seen.iter().map(u64::to_string).collect();
+    format!("vars {}\non {}\n", vars.join(" "), on.join(" "))
+}
+
+#[test]
+fn thirty_variable_functions_are_refused_or_handled() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let vars: Vec<String> = (0..30).map(|i| format!("v{i}")).collect();
+    // A range of 2^30 minterms is refused before it is expanded.
+    let src = format!("vars {}\non 0..1073741823\n", vars.join(" "));
+    let path = temp_file(&dir, "range30.fn", &src);
+    let out = run(&["minimize", &path, "--json"]);
+    let (line, col, msg) = located_error(&out, &path).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!((line, col), (2, 4), "{msg}");
+    assert!(msg.contains("too long"), "{msg}");
+    // Forty variables with two far-apart minterms: handled (two products).
+    let forty: Vec<String> = (0..40).map(|i| format!("v{i}")).collect();
+    let src = format!("vars {}\non 0 1099511627775\n", forty.join(" "));
+    let path = temp_file(&dir, "forty.fn", &src);
+    let out = run(&["minimize", &path, "--json"]);
+    assert_eq!(out.code, Some(0), "{}", out.stderr);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("json");
+    assert_eq!(v["cube_count"], 2);
+    // 500 scattered minterms over 30 variables: isolated points, handled quickly.
+    let path = temp_file(&dir, "scatter500.fn", &scattered_function(30, 500, 11));
+    let out = run(&["minimize", &path, "--json", "--budget", "5"]);
+    eprintln!(
+        "30 vars, 500 minterms: exit {:?} in {:?}",
+        out.code, out.elapsed
+    );
+    assert_eq!(out.code, Some(0), "{}", out.stderr);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("json");
+    assert_eq!(v["cube_count"], 500);
+    assert_eq!(v["hazard_free"], true);
+}
+
+/// Found by this suite: `minimize --budget 1` on 5000 scattered minterms of 30 variables
+/// ran about 23 s (the time grows with the square of the minterm count, before the budget
+/// is consulted), and `on 0..16777215` over 30 variables (2^24 minterms, the largest range
+/// the reader accepts) ran past 120 s using about 1 GB. Ignored until the cover stage
+/// obeys its budget there; run with `--ignored` to measure.
+#[test]
+#[ignore = "cover stage overruns its budget on large scattered on-sets (reported)"]
+fn large_thirty_variable_functions_obey_the_budget() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let path = temp_file(&dir, "scatter5000.fn", &scattered_function(30, 5000, 11));
+    let out = run(&["minimize", &path, "--json", "--budget", "1"]);
+    eprintln!(
+        "30 vars, 5000 minterms, budget 1 s: exit {:?} in {:?}",
+        out.code, out.elapsed
+    );
+    assert!(!out.timed_out, "hung");
+    assert!(
+        out.elapsed < Duration::from_secs(5),
+        "budget 1 s overrun: {:?}",
+        out.elapsed
+    );
+    let vars: Vec<String> = (0..30).map(|i| format!("v{i}")).collect();
+    let path = temp_file(
+        &dir,
+        "range24.fn",
+        &format!("vars {}\non 0..16777215\n", vars.join(" ")),
+    );
+    let out = run(&["minimize", &path, "--json", "--budget", "1"]);
+    eprintln!(
+        "30 vars, 2^24-minterm range, budget 1 s: exit {:?} in {:?}",
+        out.code, out.elapsed
+    );
+    assert!(!out.timed_out, "hung");
+    assert!(
+        out.elapsed < Duration::from_secs(5),
+        "budget 1 s overrun: {:?}",
+        out.elapsed
+    );
+}
+
+// ---------------------------------------------------------------------------------------
+// Budgets: an exact search stopped by `--budget` returns in time, `optimal: false`, and a
+// lower bound no larger than its answer.
+// ---------------------------------------------------------------------------------------
+
+/// A random function over `n` variables: each minterm on with probability 0.45, don't
+/// care with 0.15.
+fn dense_function(n: u32, seed: u64) -> String {
+    let mut rng = Lcg(seed);
+    let (mut on, mut dc) = (Vec::new(), Vec::new());
+    for m in 0..1u64 << n {
+        match rng.below(100) {
+            0..=44 => on.push(m.to_string()),
+            45..=59 => dc.push(m.to_string()),
+            _ => {}
+        }
+    }
+    let vars: Vec<String> = (0..n).map(|i| format!("v{i}")).collect();
+    format!(
+        "vars {}\non {}\ndc {}\n",
+        vars.join(" "),
+        on.join(" "),
+        dc.join(" ")
+    )
+}
+
+/// Runs `args` with `--budget budget` and checks the stopped-search contract. Timing is
+/// printed, and asserted only against a generous ceiling (3 x budget + 2 s).
+fn check_budget(args: &[&str], budget: u64, count_key: &str) {
+    let b = budget.to_string();
+    let mut argv = args.to_vec();
+    argv.extend(["--json", "--budget", &b]);
+    let out = run(&argv);
+    let limit = Duration::from_secs(3 * budget + 2);
+    eprintln!(
+        "budget {budget} s: {:?} took {:?} ({:.0} % of the budget)",
+        args,
+        out.elapsed,
+        100.0 * out.elapsed.as_secs_f64() / budget as f64
+    );
+    assert!(!out.timed_out, "{args:?}: hung");
+    assert!(
+        matches!(out.code, Some(0 | 1)),
+        "{args:?}: exit {:?}: {}",
+        out.code,
+        out.stderr
+    );
+    assert!(
+        out.elapsed < limit,
+        "{args:?}: took {:?} with a budget of {budget} s",
+        out.elapsed
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("json");
+    assert_eq!(
+        v["optimal"], false,
+        "{args:?}: a hard case should not be proven in the budget"
+    );
+    let lb = v["lower_bound"].as_u64().expect("lower_bound");
+    let answer = v[count_key].as_u64().expect("answer");
+    assert!(
+        lb <= answer,
+        "{args:?}: lower bound {lb} above the answer {answer}"
+    );
+}
+
+#[test]
+fn exact_minimisation_obeys_the_budget() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let path = temp_file(&dir, "dense12.fn", &dense_function(12, 5));
+    check_budget(&["minimize", &path, "--hazards", "none"], 1, "cube_count");
+}
+
+/// Found by this suite: on a dense random 14-variable function `minimize --budget 1` took
+/// about 12.6 s (the budget is not consulted while the primes are generated).
+#[test]
+#[ignore = "cover stage overruns a 1 s budget on a dense 14-variable function (reported)"]
+fn exact_minimisation_obeys_the_budget_on_14_variables() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let path = temp_file(&dir, "dense14.fn", &dense_function(14, 5));
+    check_budget(&["minimize", &path, "--hazards", "none"], 1, "cube_count");
+}
+
+// ---------------------------------------------------------------------------------------
+// Fuzz regressions: inputs in tests/data/fuzz-regressions/ that found a bug.
+// ---------------------------------------------------------------------------------------
+
+/// Found by the `codes` fuzz target: a JSON code string holding an escaped newline,
+/// `"0\n\n00"`, is refused with the message "expected `0` or `1`, found `<newline>`", the
+/// raw character echoed, so stderr is two lines instead of one. Owner: the assign stage
+/// (codes reader). Ignored until fixed.
+#[test]
+#[ignore = "codes reader echoes a raw newline in its message (reported to the assign stage)"]
+fn fuzz_codes_newline_in_message() {
+    let path = "tests/data/fuzz-regressions/codes-newline-in-message.json";
+    let out = run(&[
+        "races",
+        "tests/data/bad/base/codes-base.flow",
+        "--codes",
+        path,
+    ]);
+    let (line, col, msg) = located_error(&out, path).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(line, 1, "{msg}");
+    assert!(col >= 9, "{msg}");
 }
