@@ -89,9 +89,30 @@ fn ones(b: &[u64]) -> impl Iterator<Item = usize> + '_ {
 #[derive(Clone)]
 struct Node {
     rows: Vec<Bits>,
+    /// Lagrangian multiplier of each row (parallel to `rows`), warm start for the
+    /// subgradient at this node.
+    mult: Vec<i64>,
     mask: Bits,
     chosen: Vec<usize>,
     cost: u64,
+    /// Subgradient iterations to spend at this node.
+    iters: usize,
+}
+
+impl Node {
+    /// Keeps the rows (and their multipliers) for which `keep` holds, in order.
+    fn retain_rows(&mut self, mut keep: impl FnMut(usize, &Bits) -> bool) {
+        let mut k = 0;
+        for i in 0..self.rows.len() {
+            if keep(i, &self.rows[i]) {
+                self.rows.swap(k, i);
+                self.mult.swap(k, i);
+                k += 1;
+            }
+        }
+        self.rows.truncate(k);
+        self.mult.truncate(k);
+    }
 }
 
 struct Search<'a> {
@@ -100,7 +121,17 @@ struct Search<'a> {
     nodes: u64,
     stopped: bool,
     limits: Limits,
+    /// Cover costs are `unit * h + l` with `0 <= l <= slack` (see [`Search::round`]).
+    unit: u64,
+    slack: u64,
+    /// Whether costs are small enough for exact `i64` Lagrangian arithmetic.
+    lagrangian: bool,
 }
+
+/// Subgradient iterations at the root, in an independent block, and at other nodes.
+const ROOT_ITERS: usize = 1500;
+const BLOCK_ITERS: usize = 300;
+const NODE_ITERS: usize = 60;
 
 /// A solved (sub)problem.
 struct Sub {
@@ -127,21 +158,39 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
     for c in 0..p.ncols {
         set(&mut mask, c);
     }
+    // Costs with a primary part in units of 2^32 (products) and a small secondary part
+    // (literals) whose sum over all columns stays below one unit: every cover then costs
+    // a whole number of units plus at most `slack`, which lets bounds round up.
+    let unit = 1u64 << 32;
+    let slack: u64 = p.cost.iter().map(|&c| c % unit).sum();
+    let (unit, slack) = if slack < unit && p.cost.iter().all(|&c| c >= unit) {
+        (unit, slack)
+    } else {
+        (1, 0)
+    };
+    let lagrangian = p.cost.iter().all(|&c| c <= 1u64 << 40);
     let mut s = Search {
         cost: &p.cost,
         words,
         nodes: 0,
         stopped: false,
         limits,
+        unit,
+        slack,
+        lagrangian,
     };
+    let nrows = rows.len();
     let mut root = Node {
         rows,
+        mult: vec![0; nrows],
         mask,
         chosen: Vec::new(),
         cost: 0,
+        iters: ROOT_ITERS,
     };
     let feasible = s.reduce(&mut root);
     debug_assert!(feasible);
+    s.init_multipliers(&mut root);
     let core = (
         root.rows.len(),
         if root.rows.is_empty() {
@@ -201,7 +250,7 @@ impl Search<'_> {
             }
             return total;
         }
-        let lb = n.cost + self.mis_bound(&n.rows);
+        let lb = self.round(n.cost + self.mis_bound(&n.rows));
         let mut best = self.greedy(&n);
         let mut bound = lb;
         if !self.stopped && best.0 > lb {
@@ -243,15 +292,18 @@ impl Search<'_> {
             }
         }
         let mut roots: Vec<usize> = Vec::new();
-        let mut groups: Vec<Vec<Bits>> = Vec::new();
-        for r in &n.rows {
+        let mut groups: Vec<(Vec<Bits>, Vec<i64>)> = Vec::new();
+        for (r, &u) in n.rows.iter().zip(&n.mult) {
             let first = ones(r).next().unwrap_or(0);
             let root = find(&mut parent, first);
             match roots.iter().position(|&x| x == root) {
-                Some(k) => groups[k].push(r.clone()),
+                Some(k) => {
+                    groups[k].0.push(r.clone());
+                    groups[k].1.push(u);
+                }
                 None => {
                     roots.push(root);
-                    groups.push(vec![r.clone()]);
+                    groups.push((vec![r.clone()], vec![u]));
                 }
             }
         }
@@ -260,7 +312,7 @@ impl Search<'_> {
         }
         groups
             .into_iter()
-            .map(|rows| {
+            .map(|(rows, mult)| {
                 let mut mask = vec![0u64; self.words];
                 for r in &rows {
                     for (m, w) in mask.iter_mut().zip(r) {
@@ -269,9 +321,11 @@ impl Search<'_> {
                 }
                 Node {
                     rows,
+                    mult,
                     mask,
                     chosen: Vec::new(),
                     cost: 0,
+                    iters: BLOCK_ITERS,
                 }
             })
             .collect()
@@ -299,7 +353,7 @@ impl Search<'_> {
                     n.chosen.push(col);
                     n.cost += self.cost[col];
                     clear(&mut n.mask, col);
-                    n.rows.retain(|r| !has(r, col));
+                    n.retain_rows(|_, r| !has(r, col));
                     changed = true;
                     i = 0;
                     continue;
@@ -347,11 +401,7 @@ impl Search<'_> {
                 }
             }
             if changed {
-                let mut k = 0;
-                n.rows.retain(|_| {
-                    k += 1;
-                    !dead[k - 1]
-                });
+                n.retain_rows(|i, _| !dead[i]);
                 continue;
             }
             // Column dominance: c1 is dropped if some c2 covers all its rows at no more
@@ -493,9 +543,213 @@ impl Search<'_> {
         (cost, chosen)
     }
 
+    /// Rounds a lower bound `v` on the cost of a cover up to the least cost a cover can
+    /// have: covers cost `unit * h + l` with `l <= slack`, so `cost >= v` forces
+    /// `h >= ceil((v - slack) / unit)`.
+    fn round(&self, v: u64) -> u64 {
+        if v <= self.slack {
+            return v;
+        }
+        let h = (v - self.slack).div_ceil(self.unit);
+        v.max(h.saturating_mul(self.unit))
+    }
+
+    /// The usual starting multipliers: each row gets the least over its columns of the
+    /// column's cost shared among the rows it covers.
+    fn init_multipliers(&self, n: &mut Node) {
+        if !self.lagrangian {
+            return;
+        }
+        let mut per = vec![0i64; self.words * 64];
+        for r in &n.rows {
+            for c in ones(r) {
+                per[c] += 1;
+            }
+        }
+        for (r, u) in n.rows.iter().zip(n.mult.iter_mut()) {
+            *u = ones(r)
+                .map(|c| self.cost[c] as i64 / per[c].max(1))
+                .min()
+                .unwrap_or(0);
+        }
+    }
+
+    /// Lagrangian relaxation of the covering constraints of a reduced node, improved by
+    /// subgradient optimisation from the node's multipliers (J. E. Beasley, "A
+    /// Lagrangian heuristic for set-covering problems", Naval Research Logistics 37
+    /// (1990) 151-164). For multipliers `u >= 0` the value
+    /// `L(u) = sum_i u_i + sum_j min(0, c_j - sum_{i in j} u_i)` is a lower bound on
+    /// the cost still to pay; the multipliers are integers, so it is computed exactly.
+    /// Every few steps the reduced costs drive a greedy cover, made irredundant, which
+    /// may improve `best`. Leaves the best multipliers in `n.mult`; returns `L` of them
+    /// and the reduced cost of every column (indexed by column; `i64::MAX` if absent).
+    fn lagrange(
+        &mut self,
+        n: &mut Node,
+        best: &mut (u64, Vec<usize>),
+        root: bool,
+    ) -> (i64, Vec<i64>) {
+        let cols: Vec<usize> = ones(&n.mask).collect();
+        let mut idx = vec![u32::MAX; self.words * 64];
+        for (k, &c) in cols.iter().enumerate() {
+            idx[c] = k as u32;
+        }
+        let rowcols: Vec<Vec<u32>> = n
+            .rows
+            .iter()
+            .map(|r| ones(r).map(|c| idx[c]).collect())
+            .collect();
+        let mut colrows: Vec<Vec<u32>> = vec![Vec::new(); cols.len()];
+        for (i, rc) in rowcols.iter().enumerate() {
+            for &k in rc {
+                colrows[k as usize].push(i as u32);
+            }
+        }
+        let cost: Vec<i64> = cols.iter().map(|&c| self.cost[c] as i64).collect();
+        let (iters, mut f, patience, heur) = if root {
+            (n.iters, 2.0f64, 30usize, 5usize)
+        } else {
+            (n.iters, 0.5, 8, 0)
+        };
+        let mut u = std::mem::take(&mut n.mult);
+        let mut best_u = u.clone();
+        let mut best_l = i64::MIN;
+        let mut red = vec![0i64; cols.len()];
+        let mut g = vec![0i64; u.len()];
+        let mut stall = 0;
+        let eval = |u: &[i64], red: &mut [i64]| -> i64 {
+            red.copy_from_slice(&cost);
+            for (rc, &ui) in rowcols.iter().zip(u) {
+                if ui != 0 {
+                    for &k in rc {
+                        red[k as usize] -= ui;
+                    }
+                }
+            }
+            let l: i64 = u.iter().sum();
+            l + red.iter().filter(|&&r| r < 0).sum::<i64>()
+        };
+        for it in 0..iters {
+            let l = eval(&u, &mut red);
+            if l > best_l {
+                best_l = l;
+                best_u.copy_from_slice(&u);
+                stall = 0;
+            } else {
+                stall += 1;
+                if stall >= patience {
+                    f /= 2.0;
+                    stall = 0;
+                }
+            }
+            if heur > 0 && it % heur == 0 {
+                self.lag_cover(n, &cols, &rowcols, &colrows, &red, best);
+            }
+            if self.round(n.cost.saturating_add(best_l.max(0) as u64)) >= best.0 || f < 0.005 {
+                break;
+            }
+            if it % 8 == 7 && Instant::now() >= self.limits.deadline {
+                self.stopped = true;
+                break;
+            }
+            let mut norm = 0f64;
+            for (i, rc) in rowcols.iter().enumerate() {
+                let mut gi = 1 - rc.iter().filter(|&&k| red[k as usize] < 0).count() as i64;
+                if u[i] == 0 && gi < 0 {
+                    gi = 0;
+                }
+                g[i] = gi;
+                norm += (gi * gi) as f64;
+            }
+            if norm == 0.0 {
+                break;
+            }
+            let gap = (best.0.saturating_sub(n.cost) as f64 - l as f64).max(1.0);
+            let t = f * gap / norm;
+            for (ui, &gi) in u.iter_mut().zip(&g) {
+                if gi != 0 {
+                    *ui = (*ui + (t * gi as f64).round() as i64).max(0);
+                }
+            }
+        }
+        let l = eval(&best_u, &mut red);
+        debug_assert_eq!(l, best_l);
+        self.lag_cover(n, &cols, &rowcols, &colrows, &red, best);
+        n.mult = best_u;
+        let mut by_col = vec![i64::MAX; self.words * 64];
+        for (k, &c) in cols.iter().enumerate() {
+            by_col[c] = red[k];
+        }
+        (l, by_col)
+    }
+
+    /// The Lagrangian heuristic: the columns of negative reduced cost, then for each
+    /// row left uncovered its column of least reduced cost; redundant columns dropped,
+    /// dearest first. Improves `best` when cheaper.
+    fn lag_cover(
+        &self,
+        n: &Node,
+        cols: &[usize],
+        rowcols: &[Vec<u32>],
+        colrows: &[Vec<u32>],
+        red: &[i64],
+        best: &mut (u64, Vec<usize>),
+    ) {
+        let mut covered = vec![0u32; rowcols.len()];
+        let mut pick: Vec<usize> = Vec::new();
+        let add = |k: usize, covered: &mut [u32], pick: &mut Vec<usize>| {
+            pick.push(k);
+            for &i in &colrows[k] {
+                covered[i as usize] += 1;
+            }
+        };
+        for (k, &r) in red.iter().enumerate() {
+            if r < 0 {
+                add(k, &mut covered, &mut pick);
+            }
+        }
+        for i in 0..rowcols.len() {
+            if covered[i] == 0 {
+                let k = rowcols[i]
+                    .iter()
+                    .map(|&k| k as usize)
+                    .min_by_key(|&k| (red[k], self.cost[cols[k]], k))
+                    .unwrap_or(0);
+                add(k, &mut covered, &mut pick);
+            }
+        }
+        pick.sort_by_key(|&k| {
+            (
+                std::cmp::Reverse(self.cost[cols[k]]),
+                std::cmp::Reverse(red[k]),
+                k,
+            )
+        });
+        let mut keep = Vec::with_capacity(pick.len());
+        for &k in &pick {
+            if colrows[k].iter().all(|&i| covered[i as usize] >= 2) {
+                for &i in &colrows[k] {
+                    covered[i as usize] -= 1;
+                }
+            } else {
+                keep.push(k);
+            }
+        }
+        let total = keep
+            .iter()
+            .fold(n.cost, |a, &k| a.saturating_add(self.cost[cols[k]]));
+        if total < best.0 {
+            let mut chosen = n.chosen.clone();
+            chosen.extend(keep.iter().map(|&k| cols[k]));
+            *best = (total, chosen);
+        }
+    }
+
     /// Searches the subtree of `n`, improving `best`; returns a proven lower bound on
     /// every cover in the subtree (`floor` is one known from above, used for the parts
-    /// left unexplored when the budget stops the search).
+    /// left unexplored when the budget stops the search). Covers of the subtree that
+    /// cost at least `best` may be cut off (reduced-cost fixing); the bound is then one
+    /// on the rest, and the caller takes the least of it and `best`.
     fn branch(&mut self, mut n: Node, best: &mut (u64, Vec<usize>), floor: u64) -> u64 {
         if self.stopped {
             return floor;
@@ -505,6 +759,61 @@ impl Search<'_> {
             self.stopped = true;
             return floor;
         }
+        let root = n.iters >= BLOCK_ITERS;
+        let mut lb = floor;
+        let mut red = Vec::new();
+        for round in 0..4 {
+            if !self.reduce(&mut n) {
+                return u64::MAX;
+            }
+            if n.rows.is_empty() {
+                if n.cost < best.0 {
+                    *best = (n.cost, n.chosen.clone());
+                }
+                return n.cost.max(lb);
+            }
+            lb = lb.max(self.round(n.cost + self.mis_bound(&n.rows)));
+            if lb >= best.0 || !self.lagrangian {
+                break;
+            }
+            let (l, r) = self.lagrange(&mut n, best, root && round == 0);
+            red = r;
+            let l = l.max(0) as u64;
+            lb = lb.max(self.round(n.cost.saturating_add(l)));
+            if lb >= best.0 || self.stopped {
+                return lb;
+            }
+            // Reduced-cost fixing: a column whose inclusion (exclusion) lifts the
+            // bound to `best` is out of (in) every cheaper cover of this subtree.
+            let mut drop = Vec::new();
+            let mut fix = Vec::new();
+            for c in ones(&n.mask) {
+                let rc = red[c];
+                let with = self.round(n.cost.saturating_add(l.saturating_add_signed(rc.max(0))));
+                let without =
+                    self.round(n.cost.saturating_add(l.saturating_add_signed((-rc).max(0))));
+                if rc >= 0 && with >= best.0 {
+                    drop.push(c);
+                } else if rc < 0 && without >= best.0 {
+                    fix.push(c);
+                }
+            }
+            if drop.is_empty() && fix.is_empty() {
+                break;
+            }
+            for c in drop {
+                clear(&mut n.mask, c);
+            }
+            for c in fix {
+                if has(&n.mask, c) {
+                    n.chosen.push(c);
+                    n.cost += self.cost[c];
+                    clear(&mut n.mask, c);
+                    n.retain_rows(|_, r| !has(r, c));
+                }
+            }
+            n.iters = NODE_ITERS;
+        }
         if !self.reduce(&mut n) {
             return u64::MAX;
         }
@@ -512,9 +821,8 @@ impl Search<'_> {
             if n.cost < best.0 {
                 *best = (n.cost, n.chosen.clone());
             }
-            return n.cost;
+            return n.cost.max(lb);
         }
-        let lb = (n.cost + self.mis_bound(&n.rows)).max(floor);
         if lb >= best.0 {
             return lb;
         }
@@ -532,21 +840,24 @@ impl Search<'_> {
             if cost < best.0 {
                 *best = (cost, cols);
             }
-            return bound.max(lb);
+            return self.round(bound).max(lb);
         }
-        // Branch on the columns of the shortest row, most covering first.
+        // Branch on the columns of the shortest row, least reduced cost first (most
+        // covering first without multipliers).
         let ri = (0..n.rows.len())
             .min_by_key(|&i| count(&n.rows[i]))
             .unwrap_or(0);
         let cover_count = |c: usize| n.rows.iter().filter(|r| has(r, c)).count();
-        let mut keyed: Vec<(usize, usize)> =
-            ones(&n.rows[ri]).map(|c| (c, cover_count(c))).collect();
+        let mut keyed: Vec<(usize, i64, usize)> = ones(&n.rows[ri])
+            .map(|c| (c, red.get(c).copied().unwrap_or(0), cover_count(c)))
+            .collect();
         keyed.sort_by(|a, b| {
-            b.1.cmp(&a.1)
+            a.1.cmp(&b.1)
+                .then(b.2.cmp(&a.2))
                 .then(self.cost[a.0].cmp(&self.cost[b.0]))
                 .then(a.0.cmp(&b.0))
         });
-        let cols: Vec<usize> = keyed.into_iter().map(|(c, _)| c).collect();
+        let cols: Vec<usize> = keyed.into_iter().map(|(c, _, _)| c).collect();
         let mut sub_min = u64::MAX;
         for (k, &c) in cols.iter().enumerate() {
             let mut mask = n.mask.clone();
@@ -554,14 +865,23 @@ impl Search<'_> {
                 clear(&mut mask, prev);
             }
             clear(&mut mask, c);
-            let rows: Vec<Bits> = n.rows.iter().filter(|r| !has(r, c)).cloned().collect();
+            let mut rows = Vec::with_capacity(n.rows.len());
+            let mut mult = Vec::with_capacity(n.rows.len());
+            for (r, &u) in n.rows.iter().zip(&n.mult) {
+                if !has(r, c) {
+                    rows.push(r.clone());
+                    mult.push(u);
+                }
+            }
             let mut chosen = n.chosen.clone();
             chosen.push(c);
             let child = Node {
                 rows,
+                mult,
                 mask,
                 chosen,
                 cost: n.cost + self.cost[c],
+                iters: NODE_ITERS,
             };
             let b = self.branch(child, best, lb);
             sub_min = sub_min.min(b);
@@ -571,6 +891,9 @@ impl Search<'_> {
                     sub_min = sub_min.min(lb);
                 }
                 return sub_min.max(lb);
+            }
+            if lb >= best.0 {
+                break;
             }
         }
         sub_min.max(lb)
@@ -620,5 +943,66 @@ mod tests {
             rows: vec![vec![0], vec![]],
         };
         assert_eq!(solve(&p, limits()).unwrap_err(), 1);
+    }
+
+    /// Minimum cost by trying every subset of columns (the independent checker).
+    fn brute(p: &Problem) -> u64 {
+        let mut best = u64::MAX;
+        for set in 0u32..1 << p.ncols {
+            if p.rows.iter().all(|r| r.iter().any(|&c| set >> c & 1 == 1)) {
+                let c = (0..p.ncols)
+                    .filter(|&c| set >> c & 1 == 1)
+                    .map(|c| p.cost[c])
+                    .sum();
+                best = best.min(c);
+            }
+        }
+        best
+    }
+
+    fn problem(ncols: usize, raw: &[(u16, u8)], lexi: bool) -> Problem {
+        // Each row: a nonempty set of columns from the low bits; costs either small
+        // integers or "one unit of 2^32 plus a few literals" as the minimiser uses.
+        let rows: Vec<Vec<usize>> = raw
+            .iter()
+            .map(|&(bits, _)| {
+                let b = (bits as usize) % ((1usize << ncols) - 1) + 1;
+                (0..ncols).filter(|&c| b >> c & 1 == 1).collect()
+            })
+            .collect();
+        let cost = (0..ncols)
+            .map(|c| {
+                let k = raw.get(c).map_or(1, |&(_, w)| w as u64 % 5 + 1);
+                if lexi {
+                    (1u64 << 32) + k
+                } else {
+                    k
+                }
+            })
+            .collect();
+        Problem { ncols, cost, rows }
+    }
+
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig::with_cases(300))]
+        #[test]
+        fn bound_never_exceeds_brute_force_optimum(
+            ncols in 2usize..12,
+            raw in proptest::collection::vec((proptest::prelude::any::<u16>(), proptest::prelude::any::<u8>()), 1..24),
+            lexi in proptest::prelude::any::<bool>(),
+            node_limit in 0u64..6,
+        ) {
+            let p = problem(ncols, &raw, lexi);
+            let opt = brute(&p);
+            let stopped = solve(&p, Limits { node_limit, ..limits() }).unwrap();
+            proptest::prop_assert!(stopped.lower_bound <= opt);
+            proptest::prop_assert!(stopped.cost >= opt);
+            let sol_ok = p.rows.iter().all(|r| r.iter().any(|c| stopped.cols.contains(c)));
+            proptest::prop_assert!(sol_ok);
+            let full = solve(&p, limits()).unwrap();
+            proptest::prop_assert!(full.optimal);
+            proptest::prop_assert_eq!(full.cost, opt);
+            proptest::prop_assert_eq!(full.lower_bound, opt);
+        }
     }
 }
