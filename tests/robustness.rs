@@ -830,3 +830,17 @@ fn fuzz_codes_newline_in_message() {
     assert_eq!(line, 1, "{msg}");
     assert!(col >= 9, "{msg}");
 }
+
+/// Found by the `table_json` fuzz target: a state name holding an escaped newline
+/// (`"\ndd..."`) is refused with "invalid state name `<newline>dd...`", the raw
+/// character echoed, so stderr is two lines. Owner: the table stage (JSON reader: names
+/// in messages should be escaped, e.g. with `{:?}`). Ignored until fixed.
+#[test]
+#[ignore = "table JSON reader echoes a raw newline of a bad name (reported to the table stage)"]
+fn fuzz_table_json_newline_in_name() {
+    let path = "tests/data/fuzz-regressions/table-json-newline-in-name.json";
+    let out = run(&["check", path]);
+    let (line, col, msg) = located_error(&out, path).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!((line, col), (3, 19), "{msg}");
+    assert!(msg.contains("invalid state name"), "{msg}");
+}
