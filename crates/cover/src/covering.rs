@@ -91,7 +91,9 @@ struct Node {
     rows: Vec<Bits>,
     /// Lagrangian multiplier of each row (parallel to `rows`), warm start for the
     /// subgradient at this node.
-    mult: Vec<i64>,
+    mult: Vec<[i64; 2]>,
+    /// The multiplier of the product-count constraint of the literal phase.
+    mu: i64,
     mask: Bits,
     chosen: Vec<usize>,
     cost: u64,
@@ -127,6 +129,17 @@ struct Search<'a> {
     /// Whether costs are small enough for exact `i64` Lagrangian arithmetic.
     lagrangian: bool,
 }
+
+/// The column index of a node: its columns, each row's columns and each column's rows
+/// (as positions in `cols` and in the node's rows).
+struct Mat {
+    cols: Vec<usize>,
+    rowcols: Vec<Vec<u32>>,
+    colrows: Vec<Vec<u32>>,
+}
+
+/// Fixed-point scale of the literal phase (its costs are small integers).
+const LIT_SCALE: i64 = 1 << 16;
 
 /// Subgradient iterations at the root, in an independent block, and at other nodes.
 const ROOT_ITERS: usize = 1500;
@@ -182,7 +195,8 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
     let nrows = rows.len();
     let mut root = Node {
         rows,
-        mult: vec![0; nrows],
+        mult: vec![[0; 2]; nrows],
+        mu: 0,
         mask,
         chosen: Vec::new(),
         cost: 0,
@@ -292,7 +306,7 @@ impl Search<'_> {
             }
         }
         let mut roots: Vec<usize> = Vec::new();
-        let mut groups: Vec<(Vec<Bits>, Vec<i64>)> = Vec::new();
+        let mut groups: Vec<(Vec<Bits>, Vec<[i64; 2]>)> = Vec::new();
         for (r, &u) in n.rows.iter().zip(&n.mult) {
             let first = ones(r).next().unwrap_or(0);
             let root = find(&mut parent, first);
@@ -322,6 +336,7 @@ impl Search<'_> {
                 Node {
                     rows,
                     mult,
+                    mu: n.mu,
                     mask,
                     chosen: Vec::new(),
                     cost: 0,
@@ -567,8 +582,12 @@ impl Search<'_> {
             }
         }
         for (r, u) in n.rows.iter().zip(n.mult.iter_mut()) {
-            *u = ones(r)
+            u[0] = ones(r)
                 .map(|c| self.cost[c] as i64 / per[c].max(1))
+                .min()
+                .unwrap_or(0);
+            u[1] = ones(r)
+                .map(|c| (self.cost[c] % self.unit) as i64 * LIT_SCALE / per[c].max(1))
                 .min()
                 .unwrap_or(0);
         }
@@ -580,15 +599,118 @@ impl Search<'_> {
     /// (1990) 151-164). For multipliers `u >= 0` the value
     /// `L(u) = sum_i u_i + sum_j min(0, c_j - sum_{i in j} u_i)` is a lower bound on
     /// the cost still to pay; the multipliers are integers, so it is computed exactly.
-    /// Every few steps the reduced costs drive a greedy cover, made irredundant, which
-    /// may improve `best`. Leaves the best multipliers in `n.mult`; returns `L` of them
-    /// and the reduced cost of every column (indexed by column; `i64::MAX` if absent).
-    fn lagrange(
+    /// With `card = Some(k)` the covers are further restricted to exactly `k` columns,
+    /// relaxed with a free multiplier `mu`: `L(u, mu) = L_{c + mu}(u) - mu k`.
+    /// At the root, every few steps the reduced costs drive a greedy cover, made
+    /// irredundant, which may improve `best`; once at the end everywhere. Leaves the
+    /// best multipliers in the node (slot `phase`); returns the best `L` and the reduced
+    /// costs there (indexed like `m.cols`). Stops early once `done(L)` holds.
+    #[allow(clippy::too_many_arguments)]
+    fn subgradient(
         &mut self,
         n: &mut Node,
-        best: &mut (u64, Vec<usize>),
+        m: &Mat,
+        phase: usize,
+        cost: &[i64],
+        card: Option<i64>,
         root: bool,
+        target: i64,
+        done: &dyn Fn(i64) -> bool,
+        best: &mut (u64, Vec<usize>),
     ) -> (i64, Vec<i64>) {
+        let (iters, mut f, patience, heur) = if root {
+            (n.iters, 2.0f64, 30usize, 5usize)
+        } else {
+            (n.iters, 0.5, 8, 0)
+        };
+        let mut u: Vec<i64> = n.mult.iter().map(|x| x[phase]).collect();
+        let k = card.unwrap_or(0);
+        let mut mu = if card.is_some() { n.mu } else { 0 };
+        let mut best_u = u.clone();
+        let mut best_mu = mu;
+        let mut best_l = i64::MIN;
+        let mut red = vec![0i64; m.cols.len()];
+        let mut g = vec![0i64; u.len()];
+        let mut stall = 0;
+        let eval = |u: &[i64], mu: i64, red: &mut [i64]| -> i64 {
+            for (r, &c) in red.iter_mut().zip(cost) {
+                *r = c + mu;
+            }
+            for (rc, &ui) in m.rowcols.iter().zip(u) {
+                if ui != 0 {
+                    for &k in rc {
+                        red[k as usize] -= ui;
+                    }
+                }
+            }
+            let l: i64 = u.iter().sum::<i64>() - mu * k;
+            l + red.iter().filter(|&&r| r < 0).sum::<i64>()
+        };
+        for it in 0..iters {
+            let l = eval(&u, mu, &mut red);
+            if l > best_l {
+                best_l = l;
+                best_u.copy_from_slice(&u);
+                best_mu = mu;
+                stall = 0;
+            } else {
+                stall += 1;
+                if stall >= patience {
+                    f /= 2.0;
+                    stall = 0;
+                }
+            }
+            if heur > 0 && it % heur == 0 {
+                self.lag_cover(n, m, &red, best);
+            }
+            if done(best_l) || f < 0.005 {
+                break;
+            }
+            if it % 8 == 7 && Instant::now() >= self.limits.deadline {
+                self.stopped = true;
+                break;
+            }
+            let mut norm = 0f64;
+            for (i, rc) in m.rowcols.iter().enumerate() {
+                let mut gi = 1 - rc.iter().filter(|&&k| red[k as usize] < 0).count() as i64;
+                if u[i] == 0 && gi < 0 {
+                    gi = 0;
+                }
+                g[i] = gi;
+                norm += (gi * gi) as f64;
+            }
+            let gmu = if card.is_some() {
+                red.iter().filter(|&&r| r < 0).count() as i64 - k
+            } else {
+                0
+            };
+            norm += (gmu * gmu) as f64;
+            if norm == 0.0 {
+                break;
+            }
+            let gap = (target as f64 - l as f64).max(1.0);
+            let t = f * gap / norm;
+            for (ui, &gi) in u.iter_mut().zip(&g) {
+                if gi != 0 {
+                    *ui = (*ui + (t * gi as f64).round() as i64).max(0);
+                }
+            }
+            mu += (t * gmu as f64).round() as i64;
+        }
+        let l = eval(&best_u, best_mu, &mut red);
+        debug_assert_eq!(l, best_l);
+        self.lag_cover(n, m, &red, best);
+        for (x, &v) in n.mult.iter_mut().zip(&best_u) {
+            x[phase] = v;
+        }
+        if card.is_some() {
+            n.mu = best_mu;
+        }
+        (l, red)
+    }
+
+    /// The column index of a reduced node for the subgradient steps.
+    fn matrix(&self, n: &Node) -> Mat {
         let cols: Vec<usize> = ones(&n.mask).collect();
         let mut idx = vec![u32::MAX; self.words * 64];
         for (k, &c) in cols.iter().enumerate() {
@@ -605,96 +727,18 @@ impl Search<'_> {
                 colrows[k as usize].push(i as u32);
             }
         }
-        let cost: Vec<i64> = cols.iter().map(|&c| self.cost[c] as i64).collect();
-        let (iters, mut f, patience, heur) = if root {
-            (n.iters, 2.0f64, 30usize, 5usize)
-        } else {
-            (n.iters, 0.5, 8, 0)
-        };
-        let mut u = std::mem::take(&mut n.mult);
-        let mut best_u = u.clone();
-        let mut best_l = i64::MIN;
-        let mut red = vec![0i64; cols.len()];
-        let mut g = vec![0i64; u.len()];
-        let mut stall = 0;
-        let eval = |u: &[i64], red: &mut [i64]| -> i64 {
-            red.copy_from_slice(&cost);
-            for (rc, &ui) in rowcols.iter().zip(u) {
-                if ui != 0 {
-                    for &k in rc {
-                        red[k as usize] -= ui;
-                    }
-                }
-            }
-            let l: i64 = u.iter().sum();
-            l + red.iter().filter(|&&r| r < 0).sum::<i64>()
-        };
-        for it in 0..iters {
-            let l = eval(&u, &mut red);
-            if l > best_l {
-                best_l = l;
-                best_u.copy_from_slice(&u);
-                stall = 0;
-            } else {
-                stall += 1;
-                if stall >= patience {
-                    f /= 2.0;
-                    stall = 0;
-                }
-            }
-            if heur > 0 && it % heur == 0 {
-                self.lag_cover(n, &cols, &rowcols, &colrows, &red, best);
-            }
-            if self.round(n.cost.saturating_add(best_l.max(0) as u64)) >= best.0 || f < 0.005 {
-                break;
-            }
-            if it % 8 == 7 && Instant::now() >= self.limits.deadline {
-                self.stopped = true;
-                break;
-            }
-            let mut norm = 0f64;
-            for (i, rc) in rowcols.iter().enumerate() {
-                let mut gi = 1 - rc.iter().filter(|&&k| red[k as usize] < 0).count() as i64;
-                if u[i] == 0 && gi < 0 {
-                    gi = 0;
-                }
-                g[i] = gi;
-                norm += (gi * gi) as f64;
-            }
-            if norm == 0.0 {
-                break;
-            }
-            let gap = (best.0.saturating_sub(n.cost) as f64 - l as f64).max(1.0);
-            let t = f * gap / norm;
-            for (ui, &gi) in u.iter_mut().zip(&g) {
-                if gi != 0 {
-                    *ui = (*ui + (t * gi as f64).round() as i64).max(0);
-                }
-            }
+        Mat {
+            cols,
+            rowcols,
+            colrows,
         }
-        let l = eval(&best_u, &mut red);
-        debug_assert_eq!(l, best_l);
-        self.lag_cover(n, &cols, &rowcols, &colrows, &red, best);
-        n.mult = best_u;
-        let mut by_col = vec![i64::MAX; self.words * 64];
-        for (k, &c) in cols.iter().enumerate() {
-            by_col[c] = red[k];
-        }
-        (l, by_col)
     }
 
     /// The Lagrangian heuristic: the columns of negative reduced cost, then for each
     /// row left uncovered its column of least reduced cost; redundant columns dropped,
     /// dearest first. Improves `best` when cheaper.
-    fn lag_cover(
-        &self,
-        n: &Node,
-        cols: &[usize],
-        rowcols: &[Vec<u32>],
-        colrows: &[Vec<u32>],
-        red: &[i64],
-        best: &mut (u64, Vec<usize>),
-    ) {
+    fn lag_cover(&self, n: &Node, m: &Mat, red: &[i64], best: &mut (u64, Vec<usize>)) {
+        let (cols, rowcols, colrows) = (&m.cols, &m.rowcols, &m.colrows);
         let mut covered = vec![0u32; rowcols.len()];
         let mut pick: Vec<usize> = Vec::new();
         let add = |k: usize, covered: &mut [u32], pick: &mut Vec<usize>| {
@@ -776,8 +820,25 @@ impl Search<'_> {
             if lb >= best.0 || !self.lagrangian {
                 break;
             }
-            let (l, r) = self.lagrange(&mut n, best, root && round == 0);
-            red = r;
+            let m = self.matrix(&n);
+            let c1: Vec<i64> = m.cols.iter().map(|&c| self.cost[c] as i64).collect();
+            let (base, top) = (n.cost, best.0);
+            let (unit, slack) = (self.unit, self.slack);
+            let round_up = move |v: u64| {
+                if v <= slack {
+                    v
+                } else {
+                    v.max((v - slack).div_ceil(unit).saturating_mul(unit))
+                }
+            };
+            let done = move |l: i64| round_up(base.saturating_add(l.max(0) as u64)) >= top;
+            let target = top.saturating_sub(base).min(i64::MAX as u64) as i64;
+            let first = root && round == 0;
+            let (l, r) = self.subgradient(&mut n, &m, 0, &c1, None, first, target, &done, best);
+            red = vec![0i64; self.words * 64];
+            for (k, &c) in m.cols.iter().enumerate() {
+                red[c] = r[k];
+            }
             let l = l.max(0) as u64;
             lb = lb.max(self.round(n.cost.saturating_add(l)));
             if lb >= best.0 || self.stopped {
@@ -796,6 +857,40 @@ impl Search<'_> {
                     drop.push(c);
                 } else if rc < 0 && without >= best.0 {
                     fix.push(c);
+                }
+            }
+            // The literal phase: when the bound already asks for as many products as
+            // `best` has, a cheaper cover has exactly that many products here, and
+            // fewer literals in all; bound its literals with the product count fixed.
+            let hb = best.0 / self.unit;
+            if self.unit > 1 && lb >= hb * self.unit {
+                let k = (hb - n.cost / self.unit) as i64;
+                let lits_best = (best.0 % self.unit) as i64;
+                let lits_here = (n.cost % self.unit) as i64;
+                let c2: Vec<i64> = m
+                    .cols
+                    .iter()
+                    .map(|&c| (self.cost[c] % self.unit) as i64 * LIT_SCALE)
+                    .collect();
+                let need = (lits_best - lits_here) * LIT_SCALE;
+                let ceil =
+                    |v: i64| v.div_euclid(LIT_SCALE) + i64::from(v.rem_euclid(LIT_SCALE) != 0);
+                let done = move |l: i64| lits_here + ceil(l) >= lits_best;
+                let (l2, r2) =
+                    self.subgradient(&mut n, &m, 1, &c2, Some(k), first, need, &done, best);
+                let lits = lits_here + ceil(l2).max(0);
+                lb = lb.max(hb * self.unit + lits as u64);
+                if lb >= best.0 || self.stopped {
+                    return lb;
+                }
+                for (j, &c) in m.cols.iter().enumerate() {
+                    let rc = r2[j];
+                    if rc >= 0 && lits_here + ceil(l2 + rc) >= lits_best {
+                        drop.push(c);
+                    } else if rc < 0 && lits_here + ceil(l2 - rc) >= lits_best {
+                        fix.push(c);
+                    }
+                    red[c] = rc;
                 }
             }
             if drop.is_empty() && fix.is_empty() {
@@ -878,6 +973,7 @@ impl Search<'_> {
             let child = Node {
                 rows,
                 mult,
+                mu: n.mu,
                 mask,
                 chosen,
                 cost: n.cost + self.cost[c],
