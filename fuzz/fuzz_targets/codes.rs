@@ -25,13 +25,18 @@ fn table() -> &'static FlowTable {
 }
 
 fuzz_target!(|data: &[u8]| {
-    let Ok(src) = std::str::from_utf8(data) else { return };
+    let Ok(src) = std::str::from_utf8(data) else {
+        return;
+    };
     let t = table();
     let is_json = src.trim_start().starts_with('{') || src.starts_with('[');
     let codes = match Codes::parse(src, is_json, t) {
         Err(AssignError::Parse { line, col, message }) => {
             assert!(line >= 1 && col >= 1, "1-based location");
-            assert!(!message.is_empty() && !message.contains('\n'), "one line: {message:?}");
+            assert!(
+                !message.is_empty() && !message.contains('\n'),
+                "one line: {message:?}"
+            );
             return;
         }
         Err(e) => panic!("a codes file error must be located: {e:?}"),
@@ -46,7 +51,10 @@ fuzz_target!(|data: &[u8]| {
         "race analysis and separation checker disagree on {src:?}"
     );
     for r in &report.critical {
-        assert!(r.order.len() >= 2, "a critical race passes at least two codes");
+        assert!(
+            r.order.len() >= 2,
+            "a critical race passes at least two codes"
+        );
         assert_ne!(r.ends_in, r.to, "a critical race ends elsewhere");
     }
 });

@@ -7,13 +7,18 @@ use std::time::Duration;
 use stillpoint_cover::{file, minimize, verify, Config, Effort, HazardMode};
 
 fuzz_target!(|data: &[u8]| {
-    let Ok(src) = std::str::from_utf8(data) else { return };
+    let Ok(src) = std::str::from_utf8(data) else {
+        return;
+    };
     // The first byte picks the form, so both readers see every kind of input.
     let is_json = src.trim_start().starts_with('{') || src.starts_with('[');
     let mf = match file::parse(src, is_json) {
         Err(e) => {
             assert!(e.line >= 1 && e.col >= 1, "location is 1-based: {e}");
-            assert!(!e.message.is_empty() && !e.message.contains('\n'), "one line: {e:?}");
+            assert!(
+                !e.message.is_empty() && !e.message.contains('\n'),
+                "one line: {e:?}"
+            );
             return;
         }
         Ok(mf) => mf,
@@ -41,7 +46,10 @@ fuzz_target!(|data: &[u8]| {
                     if let Err(v) = verify::check(&mf, &sol, mode) {
                         panic!("{mode:?}/{effort:?}: cover fails the checker: {v:?}\n{src}");
                     }
-                    assert!(sol.lower_bound <= sol.cube_count, "lower bound above the answer");
+                    assert!(
+                        sol.lower_bound <= sol.cube_count,
+                        "lower bound above the answer"
+                    );
                 }
             }
         }

@@ -7,7 +7,9 @@ use libfuzzer_sys::fuzz_target;
 use stillpoint_table::{parse_json, parse_text};
 
 fuzz_target!(|data: &[u8]| {
-    let Ok(src) = std::str::from_utf8(data) else { return };
+    let Ok(src) = std::str::from_utf8(data) else {
+        return;
+    };
     match parse_json(src) {
         Err(e) => {
             assert!(e.line() >= 1 && e.column() >= 1, "location is 1-based: {e}");
