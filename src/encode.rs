@@ -36,8 +36,9 @@ use stillpoint_assign::{Assignment, Codes};
 use stillpoint_cover::{Cube, Function, MultiFunction, Transition};
 use stillpoint_table::{total_transitions, ChangeMode, ColumnId, FlowTable, OutBit, StateId};
 
-/// Largest support (inputs plus state variables) [`encode`] enumerates.
-pub const MAX_SUPPORT: usize = 24;
+/// Largest support (inputs plus state variables) [`encode`] enumerates: it works point by
+/// point, so beyond this it refuses rather than exhaust memory.
+pub const MAX_SUPPORT: usize = 20;
 
 /// Why a coded table cannot be encoded.
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
