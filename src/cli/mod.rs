@@ -106,11 +106,5 @@ pub fn write_file(path: &str, contents: &str) -> Result<(), CliError> {
         .map_err(|e| CliError::new(format!("{path}: cannot write file: {e}")))
 }
 
-/// The caution every report carries.
-pub const CAUTION: &str =
-    "Caution: these equations assume fundamental-mode operation (inputs change only \
-when the circuit is stable, one change at a time unless multiple changes were requested) and the \
-delay model stated in the report (feedback delay at least the input-to-logic skew). They are \
-verified by ternary simulation of the ideal gate network, not of your layout. Run timing analysis \
-on the real netlist, and where the circuit sits in safety-relevant equipment, follow the \
-applicable safety standards and licensed engineering practice.";
+/// The caution every report carries (one text, kept in the library's report module).
+pub use stillpoint::report::CAUTION;

@@ -189,10 +189,21 @@ fn run(input: &Input, args: &SynthArgs, human: bool) -> CliResult {
     Ok(if design.verification.ok { 0 } else { 1 })
 }
 
-/// The `--pictures` hook: the picture writer plugs in here.
+/// Writes the design's pictures (code cube, maps, flow graph as SVG and DOT) into `dir`.
 fn write_pictures(design: &Design, dir: &str) -> Result<(), CliError> {
-    let _ = design;
-    eprintln!("note: --pictures {dir}: pictures are not part of this build yet");
+    let (cube, maps, left_out, graph) = stillpoint::pictures::design_pictures(design);
+    let path = std::path::Path::new(dir);
+    std::fs::create_dir_all(path)
+        .map_err(|e| CliError::new(format!("{dir}: cannot create directory: {e}")))?;
+    stillpoint::pictures::write_all(path, &cube, &maps, &graph)
+        .map_err(|e| CliError::new(format!("{dir}: cannot write pictures: {e}")))?;
+    if !left_out.is_empty() {
+        eprintln!(
+            "note: no map for {} (more than {} variables)",
+            left_out.join(", "),
+            stillpoint::pictures::MAX_MAP_VARS
+        );
+    }
     Ok(())
 }
 
@@ -227,11 +238,6 @@ pub fn run_demo(args: &DemoArgs) -> CliResult {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn caution_is_the_same_text_everywhere() {
-        assert_eq!(CAUTION, stillpoint::report::CAUTION);
-    }
 
     #[test]
     fn names_are_located() {

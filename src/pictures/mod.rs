@@ -26,12 +26,14 @@
 //! ```
 
 mod cube;
+mod design;
 mod dot;
 mod graph;
 mod map;
 mod svg;
 
 pub use cube::code_cube_svg;
+pub use design::design_pictures;
 pub use dot::flow_graph_dot;
 pub use graph::flow_graph_svg;
 pub use map::kmap_svg;
