@@ -844,3 +844,23 @@ fn fuzz_table_json_newline_in_name() {
     assert_eq!((line, col), (3, 19), "{msg}");
     assert!(msg.contains("invalid state name"), "{msg}");
 }
+
+/// Found by the `pipeline` fuzz target (binary built from the working tree of
+/// 2026-12-02 01:58): `synthesize` with a 100 ms budget on this mutated arbiter table
+/// returned a design whose verification failed (a static hazard on output `g2` in the
+/// transition of row `free_two` from column 11 to 10). Synthesis must only return
+/// verified designs, so the same call is checked here with the library.
+#[test]
+fn fuzz_pipeline_output_hazard() {
+    use stillpoint::synth::{synthesize, SynthConfig};
+    let src = std::fs::read_to_string(
+        repo().join("tests/data/fuzz-regressions/pipeline-output-hazard.flow"),
+    )
+    .expect("read");
+    let t = stillpoint::table::parse_text(&src).expect("parses");
+    for ms in [10, 100, 1000] {
+        let cfg = SynthConfig::default().budget(Duration::from_millis(ms));
+        let d = synthesize(&t, &cfg).unwrap_or_else(|e| panic!("budget {ms} ms: {e}"));
+        assert!(d.verification.ok, "budget {ms} ms: {:?}", d.verification);
+    }
+}
