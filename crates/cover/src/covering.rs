@@ -1,15 +1,20 @@
 //! Exact unate covering by branch and bound over `u64` bitsets.
 //!
 //! Reductions to a fixpoint at every node (essential columns, row dominance, column
-//! dominance), a lower bound from a maximal independent set of rows (rows pairwise
-//! sharing no column each need their own column; summed minimum costs), branching on
-//! the columns of the shortest row, and a greedy first solution as the initial upper
-//! bound. Exact when it finishes; when the time or node budget stops it, the best
-//! solution found is returned with `optimal = false` and the proven root lower bound.
+//! dominance); lower bounds from a maximal independent set of rows (rows pairwise
+//! sharing no column each need their own column; summed minimum costs) and from a
+//! Lagrangian relaxation improved by subgradient steps (J. E. Beasley, "A Lagrangian
+//! heuristic for set-covering problems", Naval Research Logistics 37 (1990) 151-164),
+//! computed exactly with integer multipliers, warm-started from the parent node, with a
+//! second phase bounding literals when the product count is already tight; reduced-cost
+//! fixing; the Lagrangian heuristic for upper bounds; independent blocks solved apart;
+//! branching on the columns of the shortest row, least reduced cost first. Exact when it
+//! finishes; when the time or node budget stops it, the best solution found is returned
+//! with `optimal = false` and a proven lower bound.
 //!
 //! References: the reductions and the independent-set bound are textbook (McCluskey
 //! 1956; Brayton et al. 1984; the Utah lecture skeleton cited in our methods brief
-//! §9.2) — from memory.
+//! §9.2) — from memory; the Lagrangian method as cited above.
 
 use std::time::Instant;
 
