@@ -174,10 +174,19 @@ fn run(input: &Input, args: &SynthArgs, human: bool) -> CliResult {
         .map_err(|e| verilog_err(input, e))?;
         write_file(path, &tb)?;
     }
-    if let Some(dir) = &args.pictures {
-        write_pictures(&design, dir)?;
+    let written = match &args.pictures {
+        Some(dir) => write_pictures(&design, dir)?,
+        None => Vec::new(),
+    };
+    let mut md = to_markdown(&design, &fallback);
+    if !written.is_empty() {
+        let base = args
+            .report
+            .as_deref()
+            .map(std::path::Path::new)
+            .and_then(|p| p.parent());
+        md.push_str(&pictures_section(&written, base));
     }
-    let md = to_markdown(&design, &fallback);
     if let Some(path) = &args.report {
         write_file(path, &md)?;
     }
@@ -189,13 +198,11 @@ fn run(input: &Input, args: &SynthArgs, human: bool) -> CliResult {
     Ok(if design.verification.ok { 0 } else { 1 })
 }
 
-/// Writes the design's pictures (code cube, maps, flow graph as SVG and DOT) into `dir`.
-fn write_pictures(design: &Design, dir: &str) -> Result<(), CliError> {
+/// Writes the design's pictures (code cube, maps, flow graph as SVG and DOT) into `dir`
+/// and returns the files written.
+fn write_pictures(design: &Design, dir: &str) -> Result<Vec<std::path::PathBuf>, CliError> {
     let (cube, maps, left_out, graph) = stillpoint::pictures::design_pictures(design);
-    let path = std::path::Path::new(dir);
-    std::fs::create_dir_all(path)
-        .map_err(|e| CliError::new(format!("{dir}: cannot create directory: {e}")))?;
-    stillpoint::pictures::write_all(path, &cube, &maps, &graph)
+    let written = stillpoint::pictures::write_all(std::path::Path::new(dir), &cube, &maps, &graph)
         .map_err(|e| CliError::new(format!("{dir}: cannot write pictures: {e}")))?;
     if !left_out.is_empty() {
         eprintln!(
@@ -204,7 +211,33 @@ fn write_pictures(design: &Design, dir: &str) -> Result<(), CliError> {
             stillpoint::pictures::MAX_MAP_VARS
         );
     }
-    Ok(())
+    Ok(written)
+}
+
+/// The report's section embedding the pictures, linked relative to the report's folder
+/// when the pictures lie inside it (else by the path as written).
+fn pictures_section(
+    written: &[std::path::PathBuf],
+    report_dir: Option<&std::path::Path>,
+) -> String {
+    let mut out = String::from("\n## Pictures\n\n");
+    for p in written {
+        let link = report_dir
+            .filter(|d| !d.as_os_str().is_empty())
+            .and_then(|d| p.strip_prefix(d).ok())
+            .unwrap_or(p);
+        let link = link.to_string_lossy().replace('\\', "/");
+        let stem = p
+            .file_stem()
+            .map(|s| s.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        if p.extension().is_some_and(|e| e == "svg") {
+            out.push_str(&format!("![{stem}]({link})\n\n"));
+        } else {
+            out.push_str(&format!("- [{stem} (Graphviz DOT)]({link})\n"));
+        }
+    }
+    out
 }
 
 /// Runs `synth`.
@@ -238,6 +271,19 @@ pub fn run_demo(args: &DemoArgs) -> CliResult {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn pictures_are_linked_relative_to_the_report() {
+        let written = [
+            std::path::PathBuf::from("out/pics/cube.svg"),
+            std::path::PathBuf::from("out/pics/flow.dot"),
+        ];
+        let md = pictures_section(&written, Some(std::path::Path::new("out")));
+        assert!(md.contains("![cube](pics/cube.svg)"), "{md}");
+        assert!(md.contains("[flow (Graphviz DOT)](pics/flow.dot)"), "{md}");
+        let md = pictures_section(&written, Some(std::path::Path::new("elsewhere")));
+        assert!(md.contains("![cube](out/pics/cube.svg)"), "{md}");
+    }
 
     #[test]
     fn names_are_located() {
