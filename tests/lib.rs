@@ -11,3 +11,6 @@ mod properties;
 
 // The whole pipeline: corpus and random tables, Icarus test benches, negative tests (issue 5).
 mod synth;
+
+// Quality of results against tests/qor/baseline.json (issue 6).
+mod qor;
