@@ -411,43 +411,6 @@ const DETERMINISM_TABLES: &[&str] = &[
     "tests/data/valve_sequencer.json",
 ];
 
-/// JSON keys whose values are wall-clock measurements: the one part of a report that may
-/// differ between runs. Their values are blanked before comparing; everything else must be
-/// byte-identical.
-const TIMING_KEYS: &[&str] = &[
-    "seconds",
-    "milliseconds",
-    "elapsed",
-    "time_ms",
-    "wall_seconds",
-];
-
-/// The stdout of a run with the values of [`TIMING_KEYS`] blanked (line by line, so the
-/// comparison still sees every other byte, including key order and layout).
-fn without_timings(stdout: &[u8]) -> String {
-    let text = String::from_utf8_lossy(stdout);
-    let mut out = String::with_capacity(text.len());
-    for line in text.lines() {
-        let t = line.trim_start();
-        let timing = TIMING_KEYS
-            .iter()
-            .any(|k| t.starts_with(&format!("\"{k}\": ")));
-        if timing {
-            let (key, _) = line.split_once(": ").unwrap_or((line, ""));
-            let comma = if line.trim_end().ends_with(',') {
-                ","
-            } else {
-                ""
-            };
-            out.push_str(&format!("{key}: <time>{comma}"));
-        } else {
-            out.push_str(line);
-        }
-        out.push('\n');
-    }
-    out
-}
-
 /// Runs `args` three times (1 thread, 2 threads, 2 threads again) and asserts the same
 /// stdout bytes and exit status each time. Returns `false` if the command is a stub.
 fn assert_deterministic(args: &[&str]) -> bool {
@@ -472,7 +435,7 @@ fn assert_deterministic(args: &[&str]) -> bool {
                     "{args:?}: exit status differs with {threads} threads"
                 );
                 assert!(
-                    without_timings(&f.stdout) == without_timings(&out.stdout),
+                    f.stdout == out.stdout,
                     "{args:?}: stdout differs with RAYON_NUM_THREADS={threads}:\n{}\n---\n{}",
                     f.stdout_text(),
                     out.stdout_text()
@@ -815,9 +778,8 @@ fn exact_minimisation_obeys_the_budget_on_14_variables() {
 /// Found by the `codes` fuzz target: a JSON code string holding an escaped newline,
 /// `"0\n\n00"`, is refused with the message "expected `0` or `1`, found `<newline>`", the
 /// raw character echoed, so stderr is two lines instead of one. Owner: the assign stage
-/// (codes reader). Ignored until fixed.
+/// (codes reader). Fixed: the character is shown escaped.
 #[test]
-#[ignore = "codes reader echoes a raw newline in its message (reported to the assign stage)"]
 fn fuzz_codes_newline_in_message() {
     let path = "tests/data/fuzz-regressions/codes-newline-in-message.json";
     let out = run(&[
@@ -834,9 +796,8 @@ fn fuzz_codes_newline_in_message() {
 /// Found by the `table_json` fuzz target: a state name holding an escaped newline
 /// (`"\ndd..."`) is refused with "invalid state name `<newline>dd...`", the raw
 /// character echoed, so stderr is two lines. Owner: the table stage (JSON reader: names
-/// in messages should be escaped, e.g. with `{:?}`). Ignored until fixed.
+/// in messages should be escaped). Fixed: names in messages are shown escaped.
 #[test]
-#[ignore = "table JSON reader echoes a raw newline of a bad name (reported to the table stage)"]
 fn fuzz_table_json_newline_in_name() {
     let path = "tests/data/fuzz-regressions/table-json-newline-in-name.json";
     let out = run(&["check", path]);

@@ -183,7 +183,6 @@ pub fn run_reduce(args: &ReduceArgs) -> CliResult {
                 "primes": r.stats.primes,
                 "nodes": r.stats.nodes,
                 "stopped_by": r.stats.stopped_by,
-                "seconds": r.stats.time.as_secs_f64(),
             },
         }));
         return Ok(0);

@@ -25,16 +25,30 @@ impl CliError {
     /// A usage or input error with a ready message.
     pub fn new(message: impl Into<String>) -> Self {
         CliError {
-            message: message.into(),
+            message: one_line(&message.into()),
         }
     }
 
     /// An error located in a file: `FILE:LINE:COL: message`.
     pub fn at(file: &str, line: usize, col: usize, message: impl fmt::Display) -> Self {
         CliError {
-            message: format!("{file}:{line}:{col}: {message}"),
+            message: one_line(&format!("{file}:{line}:{col}: {message}")),
         }
     }
+}
+
+/// The contract prints an error as one line: control characters that reached a message
+/// (from names in the user's input) are shown escaped.
+fn one_line(s: &str) -> String {
+    s.chars()
+        .map(|c| {
+            if c.is_control() {
+                c.escape_debug().to_string()
+            } else {
+                c.to_string()
+            }
+        })
+        .collect()
 }
 
 impl fmt::Display for CliError {

@@ -174,7 +174,10 @@ impl Codes {
                         line: e.bits_loc.line,
                         col: e.bits_loc.col + i + e.bits_shift,
                     };
-                    return Err(perr(loc, format!("expected `0` or `1`, found `{ch}`")));
+                    return Err(perr(
+                        loc,
+                        format!("expected `0` or `1`, found `{}`", ch.escape_debug()),
+                    ));
                 }
                 if i >= MAX_WIDTH {
                     return Err(perr(

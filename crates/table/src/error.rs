@@ -77,7 +77,8 @@ pub enum TableError {
     },
     /// A name that is not `[A-Za-z_][A-Za-z0-9_]*`.
     #[error(
-        "invalid {kind} name `{name}`: expected a letter or `_` followed by letters, digits or `_`"
+        "invalid {kind} name `{}`: expected a letter or `_` followed by letters, digits or `_`",
+        show(.name)
     )]
     BadName {
         /// What the name is for.
@@ -228,3 +229,22 @@ impl fmt::Display for ParseError {
 }
 
 impl std::error::Error for ParseError {}
+
+/// Shows a token of the user's input in a message: shortened if long, and with control
+/// characters escaped so that the message stays on one line.
+pub(crate) fn show(s: &str) -> String {
+    let head: String = if s.chars().count() > 40 {
+        s.chars().take(37).chain("...".chars()).collect()
+    } else {
+        s.to_string()
+    };
+    head.chars()
+        .map(|c| {
+            if c.is_control() {
+                c.escape_debug().to_string()
+            } else {
+                c.to_string()
+            }
+        })
+        .collect()
+}

@@ -6,6 +6,7 @@
 //! `"next"` and `"out"` maps it writes only specified entries: a column missing from a
 //! state's map is unspecified.
 
+use crate::error::show;
 use crate::error::ParseError;
 use crate::ids::StateId;
 use crate::limits;
@@ -15,15 +16,6 @@ use stillpoint_json::{Kind, Member, Pos, Value};
 
 fn at(pos: Pos, msg: impl Into<String>) -> ParseError {
     ParseError::new(pos.line, pos.col, msg)
-}
-
-fn show(s: &str) -> String {
-    if s.chars().count() > 40 {
-        let head: String = s.chars().take(37).collect();
-        format!("{head}...")
-    } else {
-        s.to_string()
-    }
 }
 
 fn members<'a>(v: &'a Value, what: &str) -> Result<&'a [Member], ParseError> {

@@ -13,6 +13,7 @@
 //! busy    idle/-    (busy)/1
 //! ```
 
+use crate::error::show;
 use crate::error::ParseError;
 use crate::ids::StateId;
 use crate::limits;
@@ -67,16 +68,6 @@ fn tokens(line: &str, lno: usize) -> Vec<Tok<'_>> {
         });
     }
     out
-}
-
-/// Shows a token in a message, shortened if long.
-fn show(s: &str) -> String {
-    if s.chars().count() > 40 {
-        let head: String = s.chars().take(37).collect();
-        format!("{head}...")
-    } else {
-        s.to_string()
-    }
 }
 
 struct Pending<'a> {
