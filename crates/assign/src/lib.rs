@@ -41,6 +41,7 @@ pub mod dichotomy;
 pub mod one_hot;
 mod problem;
 pub mod races;
+mod sat;
 pub mod separation;
 pub mod tracey;
 pub mod universal;

@@ -426,10 +426,96 @@ pub(crate) struct ExactResult {
     pub(crate) clique: usize,
 }
 
-/// Exact minimum width (see the module doc). First the heuristic's width is improved
-/// downward (each width found feasible becomes the new best) for up to half the budget;
-/// then widths are tried upward from the lower bound, each proven infeasible raising it.
+/// Nodes the branch and bound gets before the SAT engine takes over: it settles small
+/// tables faster than building SAT instances, and is deterministic (node-limited).
+pub(crate) const BB_NODES: u64 = 20_000;
+
+/// Exact minimum width (see the module doc): the branch and bound with at most
+/// [`BB_NODES`] nodes, then, if it did not prove its width, the SAT engine.
 pub(crate) fn exact(
+    p: &Problem,
+    ds: &[Dichotomy],
+    node_limit: u64,
+    deadline: Option<Instant>,
+    want: usize,
+) -> ExactResult {
+    let r = exact_bb(p, ds, node_limit.min(BB_NODES), deadline, want);
+    if r.optimal || deadline.is_some_and(|d| Instant::now() >= d) {
+        return r;
+    }
+    let lb = r.lower_bound;
+    exact_sat(p, ds, deadline, want, r.classes, lb, r.nodes)
+}
+
+/// The SAT engine (see [`crate::sat`]): from the incumbent `best` (at least one cover)
+/// widths `ub - 1, ub - 2, ...` are decided until one is infeasible (the incumbent is then
+/// optimal), the proven bound is reached, or half the remaining budget is spent; then
+/// widths `lb, lb + 1, ...` upward, each proven infeasible raising the bound, until the
+/// deadline stops a solve.
+pub(crate) fn exact_sat(
+    p: &Problem,
+    ds: &[Dichotomy],
+    deadline: Option<Instant>,
+    want: usize,
+    mut best: Vec<Classes>,
+    lower_bound: usize,
+    nodes: u64,
+) -> ExactResult {
+    let clique = incompatible_clique(ds, ds.len().min(512));
+    let n = p.num_states;
+    let mut lb = lower_bound.max(log2_bound(n)).max(clique.len());
+    let mut ub = best[0].len().max(1);
+    let mut proven_at_ub = false;
+    // Downward for up to half the remaining budget, then upward from the bound.
+    let now = Instant::now();
+    let half = deadline.map(|d| now + d.saturating_duration_since(now) / 2);
+    while ub > lb {
+        let ans = crate::sat::decide(n, ds, &clique, ub - 1, half, want);
+        match ans {
+            crate::sat::Answer::Found(f) => {
+                ub -= 1;
+                best = f;
+                proven_at_ub = true;
+            }
+            crate::sat::Answer::Infeasible => lb = ub,
+            crate::sat::Answer::Stopped => break,
+        }
+    }
+    while lb < ub {
+        match crate::sat::decide(n, ds, &clique, lb, deadline, want) {
+            crate::sat::Answer::Found(f) => {
+                // Only when the downward phase stopped early: lb is the optimum.
+                ub = lb;
+                best = f;
+                proven_at_ub = true;
+            }
+            crate::sat::Answer::Infeasible => lb += 1,
+            crate::sat::Answer::Stopped => break,
+        }
+    }
+    if lb >= ub && want > best.len() && !proven_at_ub {
+        // The incumbent came from elsewhere: ask for alternatives at its width.
+        if let crate::sat::Answer::Found(f) = crate::sat::decide(n, ds, &clique, ub, deadline, want)
+        {
+            if f.len() > best.len() {
+                best = f;
+            }
+        }
+    }
+    ExactResult {
+        classes: best,
+        optimal: lb >= ub,
+        lower_bound: lb.min(ub),
+        nodes,
+        clique: clique.len(),
+    }
+}
+
+/// Exact minimum width by the branch and bound alone. First the heuristic's width is
+/// improved downward (each width found feasible becomes the new best) for up to half the
+/// budget; then widths are tried upward from the lower bound, each proven infeasible
+/// raising it.
+pub(crate) fn exact_bb(
     p: &Problem,
     ds: &[Dichotomy],
     node_limit: u64,
@@ -571,6 +657,33 @@ mod tests {
             w.sort();
             assert_eq!(parts, w);
         }
+    }
+
+    #[test]
+    fn sat_engine_matches_branch_and_bound() {
+        // The two exact engines must agree on the minimum width; each cover is rechecked
+        // by the independent separation checker after filling.
+        let mut compared = 0;
+        for seed in 0..40u64 {
+            let rows = 5 + (seed % 8) as usize; // 5..=12
+            let t = stillpoint_table::testing::random_normal_table(seed + 500, rows, 3);
+            let p = Problem::from_table(&t).unwrap();
+            let ds = required_for(&p).unwrap();
+            let bb = exact_bb(&p, &ds, 50_000_000, None, 3);
+            let sat = exact_sat(&p, &ds, None, 3, vec![fast(&ds, 4)], 0, 0);
+            assert!(bb.optimal && sat.optimal, "seed {seed}");
+            assert_eq!(bb.lower_bound, sat.lower_bound, "seed {seed}");
+            let w = bb.classes[0].len().max(1);
+            for cls in sat.classes.iter().chain(&bb.classes) {
+                assert_eq!(cls.len().max(1), w, "seed {seed}");
+                let mut cls = cls.clone();
+                cls.resize(w, Dichotomy { left: 0, right: 0 });
+                let codes = crate::Codes::new(w, fill(&p, &cls)).unwrap();
+                assert!(crate::separation::check(&t, &codes).is_ok(), "seed {seed}");
+            }
+            compared += 1;
+        }
+        assert_eq!(compared, 40);
     }
 
     #[test]
