@@ -20,6 +20,12 @@
 //! when the budget stops the search the best code found is returned with
 //! `optimal = false` and that bound.
 //!
+//! The branch and bound gets at most `BB_NODES` (20 000) nodes (it settles small tables at once);
+//! if it has not proven its width, a SAT decision procedure for one width (module
+//! `sat`, an encoding on the dichotomies) continues from its best width and bound:
+//! widths below the incumbent are decided downward (half the remaining budget), then
+//! widths upward from the bound, each infeasible one raising it.
+//!
 //! **Heuristic** ([`Method::TraceyFast`](crate::Method::TraceyFast)): first-fit packing of the dichotomies into variables, in a
 //! few deterministic orders, keeping the narrowest; its gap to the lower bound is reported.
 //! Weakness: first-fit is not optimal; on hard tables it may use a few extra variables.
