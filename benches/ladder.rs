@@ -138,7 +138,57 @@ fn assign_ladder(rows: &[usize], cols: &[usize]) {
 }
 
 fn short(s: &str) -> String {
-    s.chars().take(40).collect()
+    s.chars().take(60).collect()
+}
+
+fn pipeline_ladder(rows: &[usize], cols: &[usize]) {
+    use stillpoint::synth::{synthesize, SynthConfig};
+    println!("\n### The whole pipeline, one run per point\n");
+    println!("| rows x cols | config | rows after | state vars | products | literals | verified | ms | reduce / assign / cover / verify ms |");
+    println!("| --- | --- | --- | --- | --- | --- | --- | --- | --- |");
+    for &c in cols {
+        for &n in rows {
+            let t = common::table(n, c);
+            for (label, cfg) in [
+                (
+                    "fast",
+                    SynthConfig::default()
+                        .method(Method::TraceyFast)
+                        .effort(Effort::Fast)
+                        .alternatives(1)
+                        .budget(budget()),
+                ),
+                ("default", SynthConfig::default().budget(budget())),
+            ] {
+                let s = Instant::now();
+                let r = std::panic::catch_unwind(|| synthesize(&t, &cfg));
+                let Ok(r) = r else {
+                    println!("| {n} x {c} | {label} | panicked (see above) | | | | | | |");
+                    continue;
+                };
+                match r {
+                    Ok(d) => println!(
+                        "| {n} x {c} | {label} | {} | {} | {} | {} | {} | {} | {} / {} / {} / {} |",
+                        d.table.num_states(),
+                        d.assignment.codes.width(),
+                        d.solution.cube_count,
+                        d.solution.literal_count,
+                        d.verification.ok,
+                        ms(s.elapsed()),
+                        ms(d.stats.reduce_time),
+                        ms(d.stats.assign_time),
+                        ms(d.stats.cover_time),
+                        ms(d.stats.verify_time)
+                    ),
+                    Err(e) => println!(
+                        "| {n} x {c} | {label} | error: {} | | | | | {} | |",
+                        short(&e.to_string()),
+                        ms(s.elapsed())
+                    ),
+                }
+            }
+        }
+    }
 }
 
 fn cover_ladder(vars: &[usize], sparse: bool) {
@@ -386,6 +436,9 @@ fn main() {
     if on("cover") {
         cover_ladder(&[8, 12], false);
         cover_ladder(&[8, 12, 16, 20], true);
+    }
+    if on("pipeline") {
+        pipeline_ladder(&[8, 16, 24, 32, 64], &[4, 8, 16]);
     }
     if on("push") {
         push();
