@@ -191,10 +191,23 @@ pub(crate) fn decide(
             Answer::Infeasible
         };
     }
-    let mut e = encode(n, ds, clique, k, deadline);
     let mut found: Vec<Classes> = Vec::new();
     let mut seen: Vec<Classes> = Vec::new();
+    // Bit matrices already returned or seen. The solver writes a proof (that is how the
+    // deadline stops it), and proofs do not allow clauses added after a solve, so each
+    // further solve starts from a fresh encoding with one blocking clause per matrix.
+    let mut blocked: Vec<Vec<Vec<bool>>> = Vec::new();
     for _ in 0..want.max(1) * 4 {
+        let mut e = encode(n, ds, clique, k, deadline);
+        for code in &blocked {
+            let block: Vec<Lit> = e
+                .bits
+                .iter()
+                .zip(code)
+                .flat_map(|(row, c)| row.iter().zip(c).map(|(&l, &v)| if v { !l } else { l }))
+                .collect();
+            e.solver.add_clause(&block);
+        }
         match e.solver.solve() {
             Ok(true) => {}
             Ok(false) => break,
@@ -228,14 +241,7 @@ pub(crate) fn decide(
                 break;
             }
         }
-        // Block this bit matrix.
-        let block: Vec<Lit> = e
-            .bits
-            .iter()
-            .zip(&code)
-            .flat_map(|(row, c)| row.iter().zip(c).map(|(&l, &v)| if v { !l } else { l }))
-            .collect();
-        e.solver.add_clause(&block);
+        blocked.push(code);
     }
     if found.is_empty() {
         Answer::Infeasible
@@ -265,6 +271,19 @@ mod tests {
         for d in &ds {
             assert!(f[0].iter().any(|c| c.covers(*d)));
         }
+    }
+
+    #[test]
+    fn several_solutions_with_a_deadline_do_not_panic() {
+        // Regression: blocking clauses added after a solve made the proof writer panic.
+        let p = crate::dichotomy::tests::tracey1();
+        let ds = required_for(&p).unwrap();
+        let later = Instant::now() + std::time::Duration::from_secs(30);
+        let a = decide(5, &ds, &[], 4, Some(later), 4);
+        let Answer::Found(f) = a else {
+            panic!("4 variables suffice")
+        };
+        assert!(f.len() >= 2, "several 4-variable codes exist");
     }
 
     #[test]
