@@ -394,7 +394,8 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     let acfg = AssignConfig::default()
         .method(cfg.method)
         .budget(cfg.budget)
-        .alternatives(alts);
+        .alternatives(alts)
+        .output_separation(true);
     let assignment = assign(&coded, &acfg)?;
     if assignment.optimal == Some(false) {
         warnings.push(format!(

@@ -169,6 +169,7 @@ pub struct AssignConfig {
     node_limit: u64,
     alternatives: usize,
     max_extra_vars: usize,
+    output_separation: bool,
 }
 
 impl Default for AssignConfig {
@@ -179,6 +180,7 @@ impl Default for AssignConfig {
             node_limit: 200_000_000,
             alternatives: 1,
             max_extra_vars: 2,
+            output_separation: false,
         }
     }
 }
@@ -216,6 +218,17 @@ impl AssignConfig {
     /// [default: 2] [range: 0..=60]
     pub fn max_extra_vars(mut self, extra: usize) -> Self {
         self.max_extra_vars = extra.min(60);
+        self
+    }
+
+    /// Whether codes must also keep the table's outputs free of function hazards while the
+    /// state moves: two entries of a column with the same destination whose outputs clash
+    /// get sub-cubes that do not contain each other's source code (see the synthesis
+    /// glue, which asks for this). Applies to the dichotomy methods (`tracey`,
+    /// `tracey-fast`); the universal codes separate every pair from every state anyway.
+    /// [default: false]
+    pub fn output_separation(mut self, on: bool) -> Self {
+        self.output_separation = on;
         self
     }
 
@@ -350,7 +363,10 @@ pub fn assign(table: &FlowTable, cfg: &AssignConfig) -> Result<Assignment, Assig
         collapsed = normal_form(table)?;
         &collapsed
     };
-    let p = Problem::from_table(table)?;
+    let mut p = Problem::from_table(table)?;
+    if cfg.output_separation {
+        p.add_output_separations(table);
+    }
     let mut a = assign_problem(&p, cfg, start)?;
     a.stats.elapsed = start.elapsed();
     debug_assert!(if a.multi_step {

@@ -65,6 +65,50 @@ impl Problem {
         })
     }
 
+    /// Adds, for every column, the separations that keep the outputs of the table free of
+    /// function hazards while the state moves: when two entries `s -> t` and `u -> t` of a
+    /// column share their destination, their sub-cubes may overlap as far as the next state
+    /// is concerned, but if `u`'s entry specifies an output bit that differs from the value
+    /// the move `s -> t` must show (the destination's, else `s`'s own), the code of `u`
+    /// must lie outside `[c_s, c_t]`. Each such need is added as a pseudo column
+    /// `[(s, t), (u, u)]`, which Tracey's rule turns into the dichotomy `{s, t} | {u}`.
+    pub(crate) fn add_output_separations(&mut self, table: &FlowTable) {
+        use stillpoint_table::OutBit;
+        let differ = |a: OutBit, b: OutBit| {
+            matches!(
+                (a, b),
+                (OutBit::Zero, OutBit::One) | (OutBit::One, OutBit::Zero)
+            )
+        };
+        let mut extra = Vec::new();
+        for c in table.columns() {
+            for s in table.states() {
+                let Some(t) = table.next(s, c).filter(|&t| t != s) else {
+                    continue;
+                };
+                let (os, ot) = (table.outputs(s, c), table.outputs(t, c));
+                for u in table.states() {
+                    if u == s || u == t || table.next(u, c) != Some(t) {
+                        continue;
+                    }
+                    let ou = table.outputs(u, c);
+                    let clash = (0..os.len()).any(|j| {
+                        let shown = if ot[j] == OutBit::Free { os[j] } else { ot[j] };
+                        differ(shown, ou[j])
+                    });
+                    if clash {
+                        let (s, t, u) = (s.index() as u32, t.index() as u32, u.index() as u32);
+                        extra.push(Column {
+                            id: c.index(),
+                            pairs: vec![(s, t), (u, u)],
+                        });
+                    }
+                }
+            }
+        }
+        self.columns.extend(extra);
+    }
+
     /// The undirected edges `{s, t}` (`s != t`) of every transition, sorted, once each.
     pub(crate) fn transition_edges(&self) -> Vec<(u32, u32)> {
         let mut e: Vec<(u32, u32)> = self
