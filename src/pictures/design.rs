@@ -3,7 +3,7 @@
 
 use super::{CodeCube, CubeArrow, FlowGraph, KMap, MAX_MAP_VARS};
 use crate::synth::Design;
-use stillpoint_assign::races;
+use stillpoint_assign::{bits_string, races};
 use stillpoint_table::column_transitions;
 
 /// The pictures of a design: the code cube (with any critical race the race analysis
@@ -29,7 +29,7 @@ pub fn design_pictures(d: &Design) -> (CodeCube, Vec<KMap>, Vec<String>, FlowGra
             let critical_order = critical
                 .iter()
                 .find(|r| r.state == s && r.column == ct.column)
-                .map(|r| r.order.iter().map(|&c| bits(c, width)).collect());
+                .map(|r| r.order.iter().map(|&c| bits_string(c, width)).collect());
             transitions.push(CubeArrow {
                 column: column.clone(),
                 from: table.state_name(s).to_string(),
@@ -98,18 +98,6 @@ pub fn design_pictures(d: &Design) -> (CodeCube, Vec<KMap>, Vec<String>, FlowGra
         stable,
     };
     (cube, maps, left_out, graph)
-}
-
-fn bits(code: u64, width: usize) -> String {
-    (0..width)
-        .map(|i| {
-            if code >> (width - 1 - i) & 1 == 1 {
-                '1'
-            } else {
-                '0'
-            }
-        })
-        .collect()
 }
 
 #[cfg(test)]
