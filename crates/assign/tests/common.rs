@@ -91,3 +91,31 @@ r3    r4   (r3)  (r3)
 r4   (r4)   r5    r1
 r5    r2   (r5)   r3
 ";
+
+/// Adds to a SAT reference on code bits (`x[state][bit]`, `k` bits) the clauses saying that
+/// some bit is constant on the states `a`, constant on the states `b`, and different on
+/// the two: Tracey's separation written directly on the bits, with one indicator per bit
+/// and polarity.
+pub(crate) fn add_separation(
+    s: &mut varisat::Solver,
+    x: &[Vec<varisat::Lit>],
+    k: usize,
+    a: &[usize],
+    b: &[usize],
+) {
+    use varisat::ExtendFormula;
+    let mut any = Vec::new();
+    for j in 0..k {
+        for pol in [false, true] {
+            let e = s.new_lit();
+            for &p in a {
+                s.add_clause(&[!e, if pol { x[p][j] } else { !x[p][j] }]);
+            }
+            for &q in b {
+                s.add_clause(&[!e, if pol { !x[q][j] } else { x[q][j] }]);
+            }
+            any.push(e);
+        }
+    }
+    s.add_clause(&any);
+}

@@ -3,7 +3,7 @@
 //! column with different destinations some bit separates their pairs; distinct codes),
 //! solved with the `varisat` crate (a general-purpose CDCL SAT solver).
 
-use crate::common::{pairs, random_normal};
+use crate::common::{add_separation, pairs, random_normal};
 use stillpoint_assign::{assign, separation, AssignConfig, Method};
 use varisat::{ExtendFormula, Lit, Solver};
 
@@ -23,22 +23,7 @@ fn sat_width_ok(n: usize, cols: &[Vec<(usize, usize)>], k: usize) -> bool {
             s.add_clause(&[!x[1][j], x[1][j + 1]]);
         }
     }
-    let separate = |s: &mut Solver, a: &[usize], b: &[usize]| {
-        let mut any = Vec::new();
-        for j in 0..k {
-            for pol in [false, true] {
-                let e = s.new_lit();
-                for &p in a {
-                    s.add_clause(&[!e, if pol { x[p][j] } else { !x[p][j] }]);
-                }
-                for &q in b {
-                    s.add_clause(&[!e, if pol { !x[q][j] } else { x[q][j] }]);
-                }
-                any.push(e);
-            }
-        }
-        s.add_clause(&any);
-    };
+    let separate = |s: &mut Solver, a: &[usize], b: &[usize]| add_separation(s, &x, k, a, b);
     for col in cols {
         for (i, &(a, b)) in col.iter().enumerate() {
             for &(c, d) in &col[i + 1..] {

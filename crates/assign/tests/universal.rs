@@ -2,6 +2,7 @@
 //! of states (and a pair and a single state, for n = 3) are separated by some variable
 //! (methods.md §5.2): the separation checker over every such split.
 
+use crate::common::add_separation;
 use stillpoint_assign::separation::{is_universal, subcubes_meet};
 use stillpoint_assign::universal::{liu, pruned_linear};
 use varisat::{ExtendFormula, Lit, Solver};
@@ -70,20 +71,7 @@ fn universal_exists(n: usize, k: usize) -> bool {
             if a.iter().any(|p| b.contains(p)) {
                 continue;
             }
-            let mut any = Vec::new();
-            for j in 0..k {
-                for pol in [false, true] {
-                    let e = s.new_lit();
-                    for &p in a {
-                        s.add_clause(&[!e, if pol { x[p][j] } else { !x[p][j] }]);
-                    }
-                    for &q in b {
-                        s.add_clause(&[!e, if pol { !x[q][j] } else { x[q][j] }]);
-                    }
-                    any.push(e);
-                }
-            }
-            s.add_clause(&any);
+            add_separation(&mut s, &x, k, a, b);
         }
     }
     s.solve().unwrap()
