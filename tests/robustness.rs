@@ -149,6 +149,26 @@ struct Row {
     substring: String,
 }
 
+impl Row {
+    /// What is wrong with a located error against this row's expectation, if anything.
+    fn mismatch(&self, verdict: Result<(usize, usize, String), String>) -> Option<String> {
+        match verdict {
+            Err(e) => Some(format!("{}: {e}", self.file)),
+            Ok((line, col, msg)) if (line, col) != (self.line, self.col) => Some(format!(
+                "{}: located at {line}:{col}, expected {}:{} ({msg})",
+                self.file, self.line, self.col
+            )),
+            Ok((_, _, msg)) if !msg.to_lowercase().contains(&self.substring.to_lowercase()) => {
+                Some(format!(
+                    "{}: message `{msg}` lacks `{}`",
+                    self.file, self.substring
+                ))
+            }
+            Ok(_) => None,
+        }
+    }
+}
+
 fn manifest() -> Vec<Row> {
     let text = std::fs::read_to_string(bad_dir().join("expect.txt")).expect("read expect.txt");
     let mut rows = Vec::new();
@@ -235,22 +255,7 @@ fn bad_corpus_through_the_binary() {
             skipped.push(format!("{} ({})", row.file, row.command));
             continue;
         }
-        match located_error(&out, &rel) {
-            Err(e) => failures.push(format!("{}: {e}", row.file)),
-            Ok((line, col, msg)) => {
-                if (line, col) != (row.line, row.col) {
-                    failures.push(format!(
-                        "{}: located at {line}:{col}, expected {}:{} ({msg})",
-                        row.file, row.line, row.col
-                    ));
-                } else if !msg.to_lowercase().contains(&row.substring.to_lowercase()) {
-                    failures.push(format!(
-                        "{}: message `{msg}` lacks `{}`",
-                        row.file, row.substring
-                    ));
-                }
-            }
-        }
+        failures.extend(row.mismatch(located_error(&out, &rel)));
     }
     if !skipped.is_empty() {
         eprintln!(
@@ -369,22 +374,7 @@ fn bad_corpus_through_the_library() {
             continue;
         };
         checked += 1;
-        match verdict {
-            Err(e) => failures.push(format!("{}: {e}", row.file)),
-            Ok((line, col, msg)) => {
-                if (line, col) != (row.line, row.col) {
-                    failures.push(format!(
-                        "{}: located at {line}:{col}, expected {}:{} ({msg})",
-                        row.file, row.line, row.col
-                    ));
-                } else if !msg.to_lowercase().contains(&row.substring.to_lowercase()) {
-                    failures.push(format!(
-                        "{}: message `{msg}` lacks `{}`",
-                        row.file, row.substring
-                    ));
-                }
-            }
-        }
+        failures.extend(row.mismatch(verdict));
     }
     eprintln!(
         "bad corpus: {checked} of {} rows checked through the library",
