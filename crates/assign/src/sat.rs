@@ -23,28 +23,99 @@
 //!    code valid and step 1's `b[r][*] = 0`, `c_t` is covered by variable `t`: its clause
 //!    becomes `x[c_t][t][0] OR x[c_t][t][1]`.
 //!
-//! **Budget**: the solver has no interrupt; its proof output is written into a sink that
-//! fails once the deadline has passed, which makes the solver stop with an error (the
-//! solver is then dropped and the width reported as not decided).
+//! **Budget**: the solver has no interrupt and no conflict limit; its proof output (binary
+//! DRAT, mostly one record per learned or deleted clause) is written into a sink that
+//! counts the bytes and fails once a work allowance is spent, which makes the solver stop
+//! with an error (the solver is then dropped and the width reported as not decided). The
+//! solver is deterministic, so the byte count at which it stops, and with it every
+//! answer, is the same on every run: the allowance ([`Work`]) is the deterministic limit.
+//! The sink also fails once a wall-clock deadline has passed; that is only a safety net,
+//! and when it fires [`Work::clock_fired`] records it (the result may then differ between
+//! runs).
 
 use crate::dichotomy::{ones, Dichotomy};
 use crate::tracey::Classes;
+use std::cell::Cell;
 use std::io;
+use std::rc::Rc;
 use std::time::Instant;
 use varisat::{ExtendFormula, Lit, ProofFormat, Solver};
 
-/// A proof sink that refuses writes once the deadline has passed (how a solve is stopped).
-struct DeadlineSink {
-    at: Instant,
+/// The deterministic work allowance of the SAT solves of one search, in bytes of proof
+/// output, with a wall-clock deadline as the outer safety net.
+#[derive(Debug, Clone)]
+pub(crate) struct Work {
+    /// Bytes still allowed.
+    pub(crate) left: u64,
+    /// Bytes written so far (all solves).
+    pub(crate) used: u64,
+    /// The safety net.
+    pub(crate) deadline: Option<Instant>,
+    /// Whether the deadline, not the allowance, stopped a solve.
+    pub(crate) clock_fired: bool,
 }
 
-impl io::Write for DeadlineSink {
-    fn write(&mut self, buf: &[u8]) -> io::Result<usize> {
-        if Instant::now() >= self.at {
-            Err(io::Error::other("deadline"))
-        } else {
-            Ok(buf.len())
+impl Work {
+    /// An allowance of `bytes` with a deadline.
+    pub(crate) fn new(bytes: u64, deadline: Option<Instant>) -> Work {
+        Work {
+            left: bytes,
+            used: 0,
+            deadline,
+            clock_fired: false,
         }
+    }
+
+    /// No limit at all (tests that run the engines to the end).
+    #[cfg(test)]
+    pub(crate) fn unlimited() -> Work {
+        Work::new(u64::MAX, None)
+    }
+
+    /// A part of the allowance, at most `bytes`, to be given back with [`Work::absorb`].
+    pub(crate) fn part(&self, bytes: u64) -> Work {
+        Work {
+            left: self.left.min(bytes),
+            used: 0,
+            deadline: self.deadline,
+            clock_fired: false,
+        }
+    }
+
+    /// Takes back what a [`Work::part`] spent.
+    pub(crate) fn absorb(&mut self, part: &Work) {
+        self.left = self.left.saturating_sub(part.used);
+        self.used += part.used;
+        self.clock_fired |= part.clock_fired;
+    }
+
+    /// Whether nothing is left (allowance spent or the deadline fired).
+    pub(crate) fn spent(&self) -> bool {
+        self.left == 0 || self.clock_fired
+    }
+}
+
+/// A proof sink that counts bytes and refuses writes beyond the allowance or after the
+/// deadline (how a solve is stopped).
+struct CountingSink {
+    written: Rc<Cell<u64>>,
+    limit: u64,
+    deadline: Option<Instant>,
+    clock: Rc<Cell<bool>>,
+}
+
+impl io::Write for CountingSink {
+    fn write(&mut self, buf: &[u8]) -> io::Result<usize> {
+        let w = self.written.get().saturating_add(buf.len() as u64);
+        if w > self.limit {
+            return Err(io::Error::other("work allowance spent"));
+        }
+        if self.deadline.is_some_and(|d| Instant::now() >= d) {
+            self.clock.set(true);
+            return Err(io::Error::other("deadline"));
+        }
+        self.written.set(w);
+        Ok(buf.len())
     }
     fn flush(&mut self) -> io::Result<()> {
         Ok(())
@@ -67,6 +138,10 @@ struct Encoding {
     solver: Solver<'static>,
     /// `b[s][i]`.
     bits: Vec<Vec<Lit>>,
+    /// Proof bytes written by this solver.
+    written: Rc<Cell<u64>>,
+    /// Whether the deadline stopped it.
+    clock: Rc<Cell<bool>>,
 }
 
 /// The state in the most dichotomies (lowest index on a tie).
@@ -82,16 +157,18 @@ fn pivot(n: usize, ds: &[Dichotomy]) -> usize {
         .unwrap_or(0)
 }
 
-fn encode(
-    n: usize,
-    ds: &[Dichotomy],
-    clique: &[usize],
-    k: usize,
-    deadline: Option<Instant>,
-) -> Encoding {
+fn encode(n: usize, ds: &[Dichotomy], clique: &[usize], k: usize, work: &Work) -> Encoding {
     let mut solver = Solver::new();
-    if let Some(at) = deadline {
-        solver.write_proof(DeadlineSink { at }, ProofFormat::BinaryDrat);
+    let written = Rc::new(Cell::new(0));
+    let clock = Rc::new(Cell::new(false));
+    if work.left != u64::MAX || work.deadline.is_some() {
+        let sink = CountingSink {
+            written: written.clone(),
+            limit: work.left,
+            deadline: work.deadline,
+            clock: clock.clone(),
+        };
+        solver.write_proof(sink, ProofFormat::BinaryDrat);
     }
     let bits: Vec<Vec<Lit>> = (0..n)
         .map(|_| (0..k).map(|_| solver.new_lit()).collect())
@@ -137,7 +214,12 @@ fn encode(
         }
         solver.add_clause(&any);
     }
-    Encoding { solver, bits }
+    Encoding {
+        solver,
+        bits,
+        written,
+        clock,
+    }
 }
 
 /// The classes of a model: for each variable, the merged sides (oriented by the bits) of
@@ -172,13 +254,13 @@ fn classes_of(ds: &[Dichotomy], code: &[Vec<bool>], k: usize) -> Classes {
 /// Decides width `k` for `n` states and the required dichotomies `ds`; `clique` is a
 /// clique of pairwise incompatible dichotomies (indices into `ds`). When feasible, up to
 /// `want` solutions with distinct class sets are returned (further solves with clauses
-/// blocking each found bit matrix, at most `4 * want` solves).
+/// blocking each found bit matrix, at most `4 * want` solves). The solves spend `work`.
 pub(crate) fn decide(
     n: usize,
     ds: &[Dichotomy],
     clique: &[usize],
     k: usize,
-    deadline: Option<Instant>,
+    work: &mut Work,
     want: usize,
 ) -> Answer {
     if clique.len() > k || (k < 64 && n > 1usize << k) {
@@ -198,7 +280,14 @@ pub(crate) fn decide(
     // further solve starts from a fresh encoding with one blocking clause per matrix.
     let mut blocked: Vec<Vec<Vec<bool>>> = Vec::new();
     for _ in 0..want.max(1) * 4 {
-        let mut e = encode(n, ds, clique, k, deadline);
+        if work.spent() {
+            return if found.is_empty() {
+                Answer::Stopped
+            } else {
+                Answer::Found(found)
+            };
+        }
+        let mut e = encode(n, ds, clique, k, work);
         for code in &blocked {
             let block: Vec<Lit> = e
                 .bits
@@ -208,7 +297,21 @@ pub(crate) fn decide(
                 .collect();
             e.solver.add_clause(&block);
         }
-        match e.solver.solve() {
+        let res = e.solver.solve();
+        let spent = e.written.get();
+        work.used += spent;
+        work.left = if work.left == u64::MAX {
+            u64::MAX
+        } else {
+            work.left.saturating_sub(spent)
+        };
+        if res.is_err() {
+            work.clock_fired |= e.clock.get();
+            if !e.clock.get() {
+                work.left = 0;
+            }
+        }
+        match res {
             Ok(true) => {}
             Ok(false) => break,
             Err(_) => {
@@ -262,9 +365,15 @@ mod tests {
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
         let clique = crate::tracey::incompatible_clique(&ds, 8);
-        assert_eq!(decide(5, &ds, &clique, 2, None, 1), Answer::Infeasible);
-        assert_eq!(decide(5, &ds, &[], 2, None, 1), Answer::Infeasible);
-        let Answer::Found(f) = decide(5, &ds, &clique, 3, None, 4) else {
+        assert_eq!(
+            decide(5, &ds, &clique, 2, &mut Work::unlimited(), 1),
+            Answer::Infeasible
+        );
+        assert_eq!(
+            decide(5, &ds, &[], 2, &mut Work::unlimited(), 1),
+            Answer::Infeasible
+        );
+        let Answer::Found(f) = decide(5, &ds, &clique, 3, &mut Work::unlimited(), 4) else {
             panic!("3 variables suffice")
         };
         assert_eq!(f.len(), 1, "the optimum is unique");
@@ -279,7 +388,7 @@ mod tests {
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
         let later = Instant::now() + std::time::Duration::from_secs(30);
-        let a = decide(5, &ds, &[], 4, Some(later), 4);
+        let a = decide(5, &ds, &[], 4, &mut Work::new(1 << 30, Some(later)), 4);
         let Answer::Found(f) = a else {
             panic!("4 variables suffice")
         };
@@ -293,7 +402,29 @@ mod tests {
         // A tiny instance may finish before the proof buffer is written, so accept both;
         // what must not happen is a wrong infeasibility.
         let past = Instant::now();
-        let a = decide(5, &ds, &[], 3, Some(past), 1);
+        let a = decide(5, &ds, &[], 3, &mut Work::new(u64::MAX - 1, Some(past)), 1);
         assert!(matches!(a, Answer::Found(_) | Answer::Stopped));
+    }
+
+    #[test]
+    fn a_spent_allowance_stops_the_same_way_every_time() {
+        // A zero allowance stops before any proof byte; a small one stops at the same
+        // point on every run (the solver is deterministic), whatever the clock says.
+        let p = crate::dichotomy::tests::tracey1();
+        let ds = required_for(&p).unwrap();
+        let mut w = Work::new(0, None);
+        assert_eq!(decide(5, &ds, &[], 3, &mut w, 1), Answer::Stopped);
+        assert!(!w.clock_fired);
+        let t = stillpoint_table::testing::random_normal_table(3, 16, 4);
+        let p = crate::problem::Problem::from_table(&t).unwrap();
+        let ds = required_for(&p).unwrap();
+        let runs: Vec<(Answer, u64)> = (0..2)
+            .map(|_| {
+                let mut w = Work::new(20_000, None);
+                let a = decide(16, &ds, &[], 5, &mut w, 1);
+                (a, w.used)
+            })
+            .collect();
+        assert_eq!(runs[0], runs[1]);
     }
 }

@@ -185,6 +185,8 @@ pub(crate) struct Search<'a> {
     node_limit: u64,
     deadline: Option<Instant>,
     stopped: bool,
+    /// Whether the deadline (not the node limit) stopped the search.
+    pub(crate) clock_fired: bool,
     want: usize,
     pub(crate) found: Vec<Classes>,
 }
@@ -209,6 +211,7 @@ impl<'a> Search<'a> {
             node_limit,
             deadline,
             stopped: false,
+            clock_fired: false,
             want: want.max(1),
             found: Vec::new(),
         }
@@ -242,6 +245,7 @@ impl<'a> Search<'a> {
             if let Some(d) = self.deadline {
                 if Instant::now() >= d {
                     self.stopped = true;
+                    self.clock_fired = true;
                     return true;
                 }
             }
@@ -430,79 +434,108 @@ pub(crate) struct ExactResult {
     pub(crate) optimal: bool,
     pub(crate) nodes: u64,
     pub(crate) clique: usize,
+    /// Work units (bytes of proof output) the SAT engine spent.
+    pub(crate) sat_work: u64,
+    /// Whether the wall-clock safety net, not a work limit, stopped a search.
+    pub(crate) clock_fired: bool,
 }
 
 /// Nodes the branch and bound gets before the SAT engine takes over: it settles small
 /// tables faster than building SAT instances, and is deterministic (node-limited).
 pub(crate) const BB_NODES: u64 = 20_000;
 
+/// The deterministic limits of one exact run: branch-and-bound nodes, SAT work (bytes of
+/// proof output, see [`crate::sat::Work`]), and the wall-clock safety net.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct Limits {
+    pub(crate) nodes: u64,
+    pub(crate) sat_work: u64,
+    pub(crate) deadline: Option<Instant>,
+}
+
+impl Limits {
+    /// No limit (tests that run the engines to the end).
+    #[cfg(test)]
+    pub(crate) fn unlimited() -> Limits {
+        Limits {
+            nodes: u64::MAX,
+            sat_work: u64::MAX,
+            deadline: None,
+        }
+    }
+}
+
 /// Exact minimum width (see the module doc): the branch and bound with at most
 /// [`BB_NODES`] nodes, then, if it did not prove its width, the SAT engine.
-pub(crate) fn exact(
-    p: &Problem,
-    ds: &[Dichotomy],
-    node_limit: u64,
-    deadline: Option<Instant>,
-    want: usize,
-) -> ExactResult {
-    let r = exact_bb(p, ds, node_limit.min(BB_NODES), deadline, want);
-    if r.optimal || deadline.is_some_and(|d| Instant::now() >= d) {
+pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) -> ExactResult {
+    let bb_limits = Limits {
+        nodes: limits.nodes.min(BB_NODES),
+        ..limits
+    };
+    let r = exact_bb(p, ds, bb_limits, want);
+    if r.optimal || r.clock_fired {
         return r;
     }
     let lb = r.lower_bound;
-    exact_sat(p, ds, deadline, want, r.classes, lb, r.nodes)
+    let mut work = crate::sat::Work::new(limits.sat_work, limits.deadline);
+    let mut out = exact_sat(p, ds, &mut work, want, r.classes, lb, r.nodes);
+    out.clock_fired |= r.clock_fired;
+    out
 }
 
 /// The SAT engine (see [`crate::sat`]): from the incumbent `best` (at least one cover)
 /// widths `ub - 1, ub - 2, ...` are decided until one is infeasible (the incumbent is then
-/// optimal), the proven bound is reached, or half the remaining budget is spent; then
+/// optimal), the proven bound is reached, or half the work allowance is spent; then
 /// widths `lb, lb + 1, ...` upward, each proven infeasible raising the bound, until the
-/// deadline stops a solve.
+/// allowance stops a solve.
 pub(crate) fn exact_sat(
     p: &Problem,
     ds: &[Dichotomy],
-    deadline: Option<Instant>,
+    work: &mut crate::sat::Work,
     want: usize,
     mut best: Vec<Classes>,
     lower_bound: usize,
     nodes: u64,
 ) -> ExactResult {
+    use crate::sat::{decide, Answer};
     let clique = incompatible_clique(ds, ds.len().min(512));
     let n = p.num_states;
     let mut lb = lower_bound.max(log2_bound(n)).max(clique.len());
     let mut ub = best[0].len().max(1);
     let mut proven_at_ub = false;
-    // Downward for up to half the remaining budget, then upward from the bound.
-    let now = Instant::now();
-    let half = deadline.map(|d| now + d.saturating_duration_since(now) / 2);
+    // Downward for up to half the allowance, then upward from the bound.
+    let mut down = work.part(if work.left == u64::MAX {
+        u64::MAX
+    } else {
+        work.left / 2
+    });
     while ub > lb {
-        let ans = crate::sat::decide(n, ds, &clique, ub - 1, half, want);
-        match ans {
-            crate::sat::Answer::Found(f) => {
+        match decide(n, ds, &clique, ub - 1, &mut down, want) {
+            Answer::Found(f) => {
                 ub -= 1;
                 best = f;
                 proven_at_ub = true;
             }
-            crate::sat::Answer::Infeasible => lb = ub,
-            crate::sat::Answer::Stopped => break,
+            Answer::Infeasible => lb = ub,
+            Answer::Stopped => break,
         }
     }
-    while lb < ub {
-        match crate::sat::decide(n, ds, &clique, lb, deadline, want) {
-            crate::sat::Answer::Found(f) => {
+    work.absorb(&down);
+    while lb < ub && !work.clock_fired {
+        match decide(n, ds, &clique, lb, work, want) {
+            Answer::Found(f) => {
                 // Only when the downward phase stopped early: lb is the optimum.
                 ub = lb;
                 best = f;
                 proven_at_ub = true;
             }
-            crate::sat::Answer::Infeasible => lb += 1,
-            crate::sat::Answer::Stopped => break,
+            Answer::Infeasible => lb += 1,
+            Answer::Stopped => break,
         }
     }
     if lb >= ub && want > best.len() && !proven_at_ub {
         // The incumbent came from elsewhere: ask for alternatives at its width.
-        if let crate::sat::Answer::Found(f) = crate::sat::decide(n, ds, &clique, ub, deadline, want)
-        {
+        if let Answer::Found(f) = decide(n, ds, &clique, ub, work, want) {
             if f.len() > best.len() {
                 best = f;
             }
@@ -514,35 +547,34 @@ pub(crate) fn exact_sat(
         lower_bound: lb.min(ub),
         nodes,
         clique: clique.len(),
+        sat_work: work.used,
+        clock_fired: work.clock_fired,
     }
 }
 
 /// Exact minimum width by the branch and bound alone. First the heuristic's width is
 /// improved downward (each width found feasible becomes the new best) for up to half the
-/// budget; then widths are tried upward from the lower bound, each proven infeasible
+/// node limit; then widths are tried upward from the lower bound, each proven infeasible
 /// raising it.
-pub(crate) fn exact_bb(
-    p: &Problem,
-    ds: &[Dichotomy],
-    node_limit: u64,
-    deadline: Option<Instant>,
-    want: usize,
-) -> ExactResult {
-    let start = Instant::now();
+pub(crate) fn exact_bb(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) -> ExactResult {
+    let node_limit = limits.nodes;
+    let deadline = limits.deadline;
     let mut best: Vec<Classes> = vec![fast(ds, 16)];
     let clique = incompatible_clique(ds, 8);
     let mut lb = log2_bound(p.num_states).max(clique.len());
     let mut ub = best[0].len().max(1);
     let mut nodes = 0u64;
-    let result = |classes, lb: usize, ub: usize, nodes| ExactResult {
+    let mut clock_fired = false;
+    let result = |classes, lb: usize, ub: usize, nodes, clock_fired| ExactResult {
         classes,
         optimal: lb >= ub,
         lower_bound: lb.min(ub),
         nodes,
         clique: clique.len(),
+        sat_work: 0,
+        clock_fired,
     };
     // Downward: improve the upper bound.
-    let half = deadline.map(|d| start + d.saturating_duration_since(start) / 2);
     while ub > lb {
         let k = ub - 1;
         let mut s = Search::new(
@@ -550,11 +582,12 @@ pub(crate) fn exact_bb(
             &clique,
             k,
             (node_limit.saturating_sub(nodes)) / 2,
-            half,
+            deadline,
             1,
         );
         let out = s.run();
         nodes += s.nodes;
+        clock_fired |= s.clock_fired;
         match out {
             Outcome::Found => {
                 ub = k;
@@ -568,7 +601,7 @@ pub(crate) fn exact_bb(
     }
     // Upward: prove the lower bound.
     let mut k = lb;
-    while k < ub {
+    while k < ub && !clock_fired {
         let mut s = Search::new(
             ds,
             &clique,
@@ -579,6 +612,7 @@ pub(crate) fn exact_bb(
         );
         let out = s.run();
         nodes += s.nodes;
+        clock_fired |= s.clock_fired;
         match out {
             Outcome::Found => {
                 // Only when the downward phase stopped early: k is the optimum.
@@ -590,11 +624,11 @@ pub(crate) fn exact_bb(
                 lb = k + 1;
                 k += 1;
             }
-            Outcome::Stopped => return result(best, lb, ub, nodes),
+            Outcome::Stopped => return result(best, lb, ub, nodes, clock_fired),
         }
     }
     // lb == ub: the best cover is optimal; collect alternatives if asked and not yet done.
-    if want > best.len() && nodes < node_limit {
+    if lb >= ub && want > best.len() && nodes < node_limit && !clock_fired {
         let mut s = Search::new(
             ds,
             &clique,
@@ -607,8 +641,9 @@ pub(crate) fn exact_bb(
             best = s.found;
         }
         nodes += s.nodes;
+        clock_fired |= s.clock_fired;
     }
-    result(best, lb, ub, nodes)
+    result(best, lb, ub, nodes, clock_fired)
 }
 
 #[cfg(test)]
@@ -627,7 +662,15 @@ mod tests {
         // CS E6831 homework 6 solutions, problem 3.11.
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
-        let r = exact(&p, &ds, 1_000_000, None, 10);
+        let r = exact(
+            &p,
+            &ds,
+            Limits {
+                nodes: 1_000_000,
+                ..Limits::unlimited()
+            },
+            10,
+        );
         assert!(r.optimal);
         assert_eq!(r.lower_bound, 3);
         let want = [
@@ -675,8 +718,9 @@ mod tests {
             let t = stillpoint_table::testing::random_normal_table(seed + 500, rows, 3);
             let p = Problem::from_table(&t).unwrap();
             let ds = required_for(&p).unwrap();
-            let bb = exact_bb(&p, &ds, 50_000_000, None, 3);
-            let sat = exact_sat(&p, &ds, None, 3, vec![fast(&ds, 4)], 0, 0);
+            let bb = exact_bb(&p, &ds, Limits::unlimited(), 3);
+            let mut work = crate::sat::Work::unlimited();
+            let sat = exact_sat(&p, &ds, &mut work, 3, vec![fast(&ds, 4)], 0, 0);
             assert!(bb.optimal && sat.optimal, "seed {seed}");
             assert_eq!(bb.lower_bound, sat.lower_bound, "seed {seed}");
             let w = bb.classes[0].len().max(1);

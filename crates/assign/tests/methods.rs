@@ -220,3 +220,55 @@ proptest::proptest! {
         }
     }
 }
+
+/// The result of a run as text, everything but the wall-clock time.
+fn fingerprint(t: &FlowTable, cfg: &AssignConfig) -> (String, bool) {
+    let a = assign(t, cfg).unwrap();
+    assert!(separation::check(t, &a.codes).is_ok());
+    let text = format!(
+        "{:?} {:?} {} {:?} {} {} {}",
+        a.codes,
+        a.alternatives,
+        a.lower_bound,
+        a.optimal,
+        a.stats.nodes,
+        a.stats.sat_work,
+        a.stats.budget_exhausted
+    );
+    (text, a.stats.clock_stopped)
+}
+
+#[test]
+fn same_result_on_every_run_and_thread_count() {
+    // Tables where the branch and bound hands over to the SAT engine, and a budget small
+    // enough that its work limit (not the clock) stops it on the largest one.
+    for (seed, rows, inputs, alternatives) in [(0u64, 24usize, 4usize, 1usize), (5, 14, 3, 3)] {
+        let t = stillpoint_table::testing::random_normal_table(seed, rows, inputs);
+        for method in [Method::Tracey, Method::TraceyFast] {
+            let cfg = AssignConfig::default()
+                .method(method)
+                .alternatives(alternatives)
+                .budget(std::time::Duration::from_secs(4));
+            let mut runs = vec![fingerprint(&t, &cfg), fingerprint(&t, &cfg)];
+            for threads in [1, 2] {
+                let pool = rayon::ThreadPoolBuilder::new()
+                    .num_threads(threads)
+                    .build()
+                    .unwrap();
+                runs.push(pool.install(|| fingerprint(&t, &cfg)));
+            }
+            // Only the wall-clock safety net may make runs differ; it must be reported.
+            let settled: Vec<&String> = runs.iter().filter(|r| !r.1).map(|r| &r.0).collect();
+            if settled.len() < 2 {
+                // A very slow machine: timings never decide a test.
+                eprintln!(
+                    "the clock stopped {} runs of {rows} rows",
+                    4 - settled.len()
+                );
+            }
+            for r in &settled {
+                assert_eq!(*r, settled[0], "{method} on {rows} rows, seed {seed}");
+            }
+        }
+    }
+}
