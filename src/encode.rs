@@ -6,21 +6,29 @@
 //! `(column value << k) | code` (the first input is the most significant bit, as the
 //! cover crate numbers minterms).
 //!
+//! The functions are built from **cubes**, never by enumerating points: a transition
+//! sub-cube is one cube, a stable point one full-length cube, and the don't-care set is
+//! the complement of what is specified (by the cover crate's unate recursion), so the
+//! support may have as many variables as a cube holds ([`MAX_SUPPORT`]).
+//!
 //! **Next state** (Tracey filling, methods.md §4.4): a stable entry maps its code to
 //! itself; for an unstable entry `s -> t` in column `x` every code of the transition
 //! sub-cube `[c_s, c_t]` maps to `c_t` (one-hot codes: `c_s` maps to the two-hot code
 //! `c_s | c_t`, which maps to `c_t`, per [`Assignment::path`]). Unused codes, unspecified
-//! entries and unlisted columns are don't-cares. Two fills of one point with different
-//! codes mean the code is not race-free, an error naming the state and column.
+//! entries and unlisted columns are don't-cares. Two regions of one column that meet
+//! and send their points to different codes mean the code is not race-free, an error
+//! naming the state and column.
 //!
 //! **Outputs.** A specified output bit of an entry holds at its own point (`(x, c_s)`),
-//! always: every specified entry of the table is honoured. The other points of a
-//! transition's path (the sub-cube without `c_s`, or the one-hot intermediate code) take
-//! the destination's value, so an output changes at most once: with the input change
-//! when the unstable entry leaves it unspecified, or when the state moves when the entry
-//! specifies the old value. When the destination leaves the bit unspecified the path
-//! takes the entry's own value. Where two such fills disagree the point stays a
-//! don't-care; a specified value always wins over a fill.
+//! always: every specified entry of the table is honoured. An unstable entry that
+//! leaves a bit unspecified takes the destination's value there (the output changes
+//! with the input change and stays put while the state moves; when the start and the
+//! destination agree this is Unger's rule of no transient pulse). The other points of a
+//! transition's path (the sub-cube without `c_s`, or the one-hot intermediate code) are
+//! left to the hazard-free minimiser: a don't-care inside a listed transition whose ends
+//! agree becomes that value, inside one whose ends differ it stays free but every
+//! product meeting the transition must hold its 1-end, so the output changes at most
+//! once along every path the state can take (Nowick & Dill, in the cover crate).
 //!
 //! **Listed transitions** (for the hazard-free minimiser): each total-state transition
 //! of the change mode from the stable `(x, c_s)` to input `x'` gives `(x, c_s) -> (x', c_s)`
@@ -31,14 +39,15 @@
 
 use crate::sim::TransitionCheck;
 use serde::Serialize;
-use std::collections::BTreeSet;
+use std::collections::{BTreeMap, BTreeSet};
 use stillpoint_assign::{Assignment, Codes};
+use stillpoint_cover::algebra::{complement, cube_minus};
 use stillpoint_cover::{Cube, Function, MultiFunction, Transition};
 use stillpoint_table::{total_transitions, ChangeMode, ColumnId, FlowTable, OutBit, StateId};
 
-/// Largest support (inputs plus state variables) [`encode`] enumerates: it works point by
-/// point, so beyond this it refuses rather than exhaust memory.
-pub const MAX_SUPPORT: usize = 20;
+/// Largest support (inputs plus state variables) [`encode`] accepts: the number of
+/// variables a cube of the cover crate holds.
+pub const MAX_SUPPORT: usize = stillpoint_cover::MAX_VARS;
 
 /// Why a coded table cannot be encoded.
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
@@ -57,7 +66,7 @@ pub enum EncodeError {
         /// The code met, as a bit string.
         code: String,
     },
-    /// Too many variables to enumerate.
+    /// Too many variables for a cube.
     #[error(
         "{inputs} inputs and {vars} state variables: at most {MAX_SUPPORT} in all are supported"
     )]
@@ -80,33 +89,6 @@ pub enum EncodeError {
     Cover(String),
 }
 
-/// The value of an output at a point while encoding.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum Val {
-    Unset,
-    Hard(bool),
-    Soft(bool),
-    Conflict,
-}
-
-impl Val {
-    fn get(self) -> Option<bool> {
-        match self {
-            Val::Hard(b) | Val::Soft(b) => Some(b),
-            _ => None,
-        }
-    }
-    fn merge(self, new: Val) -> Val {
-        match (self, new) {
-            (Val::Unset, n) => n,
-            (Val::Hard(a), _) => Val::Hard(a),
-            (_, Val::Hard(b)) => Val::Hard(b),
-            (Val::Soft(a), Val::Soft(b)) if a == b => Val::Soft(a),
-            _ => Val::Conflict,
-        }
-    }
-}
-
 /// One total-state transition with its points (for verification and test benches).
 #[derive(Debug, Clone, PartialEq, Eq, Serialize)]
 pub struct CodedTransition {
@@ -118,6 +100,13 @@ pub struct CodedTransition {
     pub to: ColumnId,
     /// The stable row after.
     pub dest: StateId,
+}
+
+/// A cube of the support whose points all have the same encoded next code.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+struct Region {
+    cube: Cube,
+    next: u64,
 }
 
 /// The functions of a coded table. See the [module doc](self).
@@ -134,10 +123,8 @@ pub struct Encoding {
     /// Unstable entries no total-state transition of the change mode reaches (encoded all
     /// the same).
     pub unreached: Vec<(StateId, ColumnId)>,
-    /// Output points where two fills disagreed and that were left unspecified.
-    pub output_conflicts: usize,
-    ns: Vec<Option<u64>>,
-    out: Vec<Vec<Val>>,
+    regions: Vec<Region>,
+    out: Vec<BTreeMap<u64, bool>>,
 }
 
 impl Encoding {
@@ -148,12 +135,17 @@ impl Encoding {
 
     /// The encoded next code at a point (`None`: don't-care).
     pub fn next_code(&self, point: u64) -> Option<u64> {
-        self.ns[point as usize]
+        let n = self.support.len();
+        self.regions
+            .iter()
+            .find(|r| r.cube.contains_minterm(n, point))
+            .map(|r| r.next)
     }
 
-    /// The encoded value of output `j` at a point (`None`: don't-care).
+    /// The encoded value of output `j` at a point (`None`: don't-care, left to the
+    /// minimiser).
     pub fn output_value(&self, j: usize, point: u64) -> Option<bool> {
-        self.out[j][point as usize].get()
+        self.out[j].get(&point).copied()
     }
 
     /// The ternary-simulation check of one total-state transition, with the outputs the
@@ -193,23 +185,50 @@ impl Encoding {
     }
 }
 
-fn subcube(a: u64, b: u64) -> impl Iterator<Item = u64> {
-    // every code that agrees with a and b where they agree
-    let diff = a ^ b;
-    let base = a & !diff;
-    let mut sub = 0u64;
-    let mut done = false;
-    std::iter::from_fn(move || {
-        if done {
-            return None;
+/// Cubes over the support `p` inputs then `k` state variables.
+#[derive(Debug, Clone, Copy)]
+struct Space {
+    p: usize,
+    k: usize,
+}
+
+impl Space {
+    fn nvars(self) -> usize {
+        self.p + self.k
+    }
+
+    fn minterm(self, x: u32, y: u64) -> u64 {
+        ((x as u64) << self.k) | y
+    }
+
+    /// The point `(x, y)` as a full-length cube.
+    fn point(self, x: u32, y: u64) -> Cube {
+        Cube::minterm(self.nvars(), self.minterm(x, y))
+    }
+
+    /// Column `x` times the sub-cube of the codes between `a` and `b`.
+    fn span(self, x: u32, a: u64, b: u64) -> Cube {
+        let mut c = self.point(x, a);
+        let mut diff = a ^ b;
+        while diff != 0 {
+            let bit = diff.trailing_zeros() as usize;
+            // code bit `bit` is y_{k - bit}, variable p + k - 1 - bit
+            c = c.with_literal(self.p + self.k - 1 - bit, None);
+            diff &= diff - 1;
         }
-        let v = base | sub;
-        sub = sub.wrapping_sub(diff) & diff;
-        if sub == 0 {
-            done = true;
+        c
+    }
+
+    /// The code part of a cube of column `x`, free variables read as 0.
+    fn code_of(self, c: &Cube) -> u64 {
+        let mut y = 0u64;
+        for i in 0..self.k {
+            if c.literal(self.p + i) == Some(true) {
+                y |= 1 << (self.k - 1 - i);
+            }
         }
-        Some(v)
-    })
+        y
+    }
 }
 
 /// Encodes a normal, coded table. See the [module doc](self).
@@ -264,91 +283,103 @@ pub fn encode_with(
     if p + k > MAX_SUPPORT {
         return Err(EncodeError::TooWide { inputs: p, vars: k });
     }
+    let sp = Space { p, k };
+    let nvars = sp.nvars();
     let m = table.num_outputs();
-    let npts = 1usize << (p + k);
-    let mut ns: Vec<Option<u64>> = vec![None; npts];
-    let mut out: Vec<Vec<Val>> = vec![vec![Val::Unset; npts]; m];
-    let pt = |x: u32, y: u64| ((x as u64) << k | y) as usize;
     let bits = |c: u64| stillpoint_assign::bits_string(c, k);
+
+    // Next-state regions, column by column, checked for overlaps with other codes.
+    let mut regions: Vec<Region> = Vec::new();
+    for c in table.columns() {
+        let xv = table.column_value(c);
+        let first = regions.len();
+        for s in table.states() {
+            let Some(t) = table.next(s, c) else { continue };
+            let cs = codes.code(s);
+            let mut mine: Vec<Region> = Vec::new();
+            if t == s {
+                mine.push(Region {
+                    cube: sp.point(xv, cs),
+                    next: cs,
+                });
+            } else {
+                let path = assignment.path(table, s, c);
+                let last = path.len() - 1;
+                for w in 0..last {
+                    let (a, b) = (path[w], path[w + 1]);
+                    let cube = sp.span(xv, a, b);
+                    if w + 1 < last {
+                        // an intermediate code maps onward (the next step's region)
+                        for piece in cube_minus(&cube, &sp.point(xv, b)) {
+                            mine.push(Region {
+                                cube: piece,
+                                next: b,
+                            });
+                        }
+                    } else {
+                        mine.push(Region { cube, next: b });
+                    }
+                }
+            }
+            for r in &mine {
+                if let Some(o) = regions[first..]
+                    .iter()
+                    .find(|o| o.next != r.next && o.cube.intersects(&r.cube))
+                {
+                    let meet = o.cube.intersection(&r.cube).unwrap_or(r.cube);
+                    return Err(EncodeError::Race {
+                        state: table.state_name(s).to_string(),
+                        column: table.column_label(c).to_string(),
+                        code: bits(sp.code_of(&meet)),
+                    });
+                }
+            }
+            regions.extend(mine);
+        }
+    }
+
+    // Outputs: the specified points (entries, and unstable entries filled from the
+    // destination); everything else is left to the minimiser.
+    let mut out: Vec<BTreeMap<u64, bool>> = vec![BTreeMap::new(); m];
     for c in table.columns() {
         let xv = table.column_value(c);
         for s in table.states() {
-            let cs = codes.code(s);
+            let q = sp.minterm(xv, codes.code(s));
             let o = table.outputs(s, c);
-            for (j, b) in o.iter().enumerate() {
-                if let Some(v) = outbit(*b) {
-                    out[j][pt(xv, cs)] = out[j][pt(xv, cs)].merge(Val::Hard(v));
-                }
-            }
-            let Some(t) = table.next(s, c) else { continue };
-            let path = assignment.path(table, s, c);
-            let mut set = |code: u64, to: u64| -> Result<(), EncodeError> {
-                let slot = &mut ns[pt(xv, code)];
-                match slot {
-                    Some(v) if *v != to => Err(EncodeError::Race {
-                        state: table.state_name(s).to_string(),
-                        column: table.column_label(c).to_string(),
-                        code: bits(code),
-                    }),
-                    _ => {
-                        *slot = Some(to);
-                        Ok(())
-                    }
-                }
-            };
-            if t == s {
-                set(cs, cs)?;
-                continue;
-            }
-            let ot = table.outputs(t, c);
-            let last = path.len() - 1;
-            for w in 0..last {
-                let (a, b) = (path[w], path[w + 1]);
-                for y in subcube(a, b) {
-                    if y == b && w + 1 < last {
-                        continue; // an intermediate code maps onward
-                    }
-                    set(y, b)?;
-                }
-            }
-            // Output fills on every path point except the source.
-            for (j, (&bs, &bt)) in o.iter().zip(ot).enumerate() {
-                let fill = outbit(bt).or(outbit(bs));
-                let Some(v) = fill else { continue };
-                if outbit(bs).is_none() {
-                    out[j][pt(xv, cs)] = out[j][pt(xv, cs)].merge(Val::Soft(v));
-                }
-                for w in 0..last {
-                    for y in subcube(path[w], path[w + 1]) {
-                        if y != cs {
-                            out[j][pt(xv, y)] = out[j][pt(xv, y)].merge(Val::Soft(v));
-                        }
-                    }
+            let dest = table.next(s, c).filter(|&t| t != s);
+            for j in 0..m {
+                let v = outbit(o[j]).or_else(|| dest.and_then(|t| outbit(table.outputs(t, c)[j])));
+                if let Some(v) = v {
+                    out[j].insert(q, v);
                 }
             }
         }
     }
-    // Total-state transitions and the listed transitions per function.
+
+    // Total-state transitions and the listed transitions.
     let tts = total_transitions(table, mode);
     let mut reached = BTreeSet::new();
     let mut listed: BTreeSet<(u64, u64)> = BTreeSet::new();
     let mut transitions = Vec::with_capacity(tts.len());
     for tt in &tts {
         let cs = codes.code(tt.state);
-        let a = pt(table.column_value(tt.from), cs) as u64;
-        let b = pt(table.column_value(tt.to), cs) as u64;
+        let a = sp.minterm(table.column_value(tt.from), cs);
+        let b = sp.minterm(table.column_value(tt.to), cs);
         listed.insert((a, b));
         if tt.dest != tt.state {
             reached.insert((tt.state, tt.to));
             let path = assignment.path(table, tt.state, tt.to);
             let xv = table.column_value(tt.to);
             for w in path.windows(2) {
-                listed.insert((pt(xv, w[0]) as u64, pt(xv, w[1]) as u64));
+                listed.insert((sp.minterm(xv, w[0]), sp.minterm(xv, w[1])));
             }
             // A multi-step move (one-hot) is also listed whole: each bit changes once
             // along it, and the gates may see the steps overlap.
             if whole_moves && path.len() > 2 {
-                listed.insert((pt(xv, path[0]) as u64, pt(xv, path[path.len() - 1]) as u64));
+                listed.insert((
+                    sp.minterm(xv, path[0]),
+                    sp.minterm(xv, path[path.len() - 1]),
+                ));
             }
         }
         transitions.push(CodedTransition {
@@ -366,55 +397,50 @@ pub fn encode_with(
             }
         }
     }
+
     // Build the functions.
-    let nvars = p + k;
     let mut support: Vec<String> = table.input_names().to_vec();
     support.extend((1..=k).map(|i| format!("y{i}")));
-    let col_listed: Vec<bool> = {
-        let mut v = vec![false; 1 << p];
-        for c in table.columns() {
-            v[table.column_value(c) as usize] = true;
-        }
-        v
-    };
-    let build = |value: &dyn Fn(usize) -> Option<bool>| -> Result<Function, EncodeError> {
-        let mut on = Vec::new();
-        let mut dc = Vec::new();
-        for (x, &listed_col) in col_listed.iter().enumerate() {
-            if !listed_col {
-                // the whole column: inputs fixed, state variables free
-                let mut cube = Cube::full();
-                for i in 0..p {
-                    cube = cube.with_literal(i, Some((x >> (p - 1 - i)) & 1 == 1));
-                }
-                dc.push(cube);
-                continue;
-            }
-            for y in 0..(1u64 << k) {
-                let q = pt(x as u32, y);
-                match value(q) {
-                    Some(true) => on.push(Cube::minterm(nvars, q as u64)),
-                    Some(false) => {}
-                    None => dc.push(Cube::minterm(nvars, q as u64)),
-                }
-            }
-        }
-        let trs: Vec<Transition> = listed
+    let next_at = |q: u64| -> Option<u64> {
+        regions
             .iter()
-            .filter(|(a, b)| value(*a as usize).is_some() && value(*b as usize).is_some())
-            .map(|&(start, end)| Transition { start, end })
-            .collect();
-        Function::from_cubes(nvars, on, dc, trs).map_err(|e| EncodeError::Cover(e.to_string()))
+            .find(|r| r.cube.contains_minterm(nvars, q))
+            .map(|r| r.next)
     };
+    let listed_ns: Vec<Transition> = listed
+        .iter()
+        .filter(|&&(a, b)| next_at(a).is_some() && next_at(b).is_some())
+        .map(|&(start, end)| Transition { start, end })
+        .collect();
+    let ns_care: Vec<Cube> = regions.iter().map(|r| r.cube).collect();
+    let ns_dc = complement(&ns_care, nvars);
     let mut outputs = Vec::with_capacity(k + m);
     for i in 0..k {
-        let f = build(&|q| ns[q].map(|c| (c >> (k - 1 - i)) & 1 == 1))?;
+        let bit = 1u64 << (k - 1 - i);
+        let on: Vec<Cube> = regions
+            .iter()
+            .filter(|r| r.next & bit != 0)
+            .map(|r| r.cube)
+            .collect();
+        let f = Function::from_cubes(nvars, on, ns_dc.clone(), listed_ns.clone())
+            .map_err(|e| EncodeError::Cover(e.to_string()))?;
         outputs.push((format!("Y{}", i + 1), f));
     }
-    let mut output_conflicts = 0;
     for (j, vals) in out.iter().enumerate() {
-        output_conflicts += vals.iter().filter(|v| **v == Val::Conflict).count();
-        let f = build(&|q| vals[q].get())?;
+        let on: Vec<Cube> = vals
+            .iter()
+            .filter(|(_, v)| **v)
+            .map(|(q, _)| Cube::minterm(nvars, *q))
+            .collect();
+        let care: Vec<Cube> = vals.keys().map(|q| Cube::minterm(nvars, *q)).collect();
+        let dc = complement(&care, nvars);
+        let trs: Vec<Transition> = listed
+            .iter()
+            .filter(|(a, b)| vals.contains_key(a) && vals.contains_key(b))
+            .map(|&(start, end)| Transition { start, end })
+            .collect();
+        let f = Function::from_cubes(nvars, on, dc, trs)
+            .map_err(|e| EncodeError::Cover(e.to_string()))?;
         outputs.push((table.output_names()[j].clone(), f));
     }
     Ok(Encoding {
@@ -426,8 +452,7 @@ pub fn encode_with(
         width: k,
         transitions,
         unreached,
-        output_conflicts,
-        ns,
+        regions,
         out,
     })
 }
@@ -445,10 +470,17 @@ mod tests {
     use super::*;
 
     #[test]
-    fn subcube_enumerates_every_code_between() {
-        let mut v: Vec<u64> = subcube(0b0010, 0b1011).collect();
-        v.sort();
-        assert_eq!(v, vec![0b0010, 0b0011, 0b1010, 0b1011]);
-        assert_eq!(subcube(5, 5).collect::<Vec<_>>(), vec![5]);
+    fn span_frees_the_differing_code_bits() {
+        let sp = Space { p: 1, k: 4 };
+        let c = sp.span(1, 0b0010, 0b1011);
+        assert_eq!(c.to_string(5), "1-01-");
+        let pts: Vec<u64> = c.minterms(5).collect();
+        let mut want = vec![0b10010, 0b10011, 0b11010, 0b11011];
+        want.sort();
+        let mut got = pts;
+        got.sort();
+        assert_eq!(got, want);
+        assert_eq!(sp.code_of(&c), 0b0010);
+        assert_eq!(sp.span(0, 5, 5), sp.point(0, 5));
     }
 }

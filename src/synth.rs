@@ -498,13 +498,6 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
             }
         ));
     }
-    if encoding.output_conflicts > 0 {
-        warnings.push(format!(
-            "{} output points inside transitions were left unspecified because two transitions \
-             asked for different values there",
-            encoding.output_conflicts
-        ));
-    }
     let essential = essential_hazards(&coded);
     if !essential.is_empty() && cfg.model == DelayModel::FeedbackDelay {
         warnings.push(format!(
