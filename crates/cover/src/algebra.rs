@@ -3,6 +3,7 @@
 //! (Brayton, Hachtel, McMullen & Sangiovanni-Vincentelli, *Logic Minimization
 //! Algorithms for VLSI Synthesis*, Kluwer 1984). Exact.
 
+use crate::budget::Clock;
 use crate::cube::Cube;
 
 /// The cofactor of `cover` with respect to cube `c`: the cubes meeting `c`, with the
@@ -106,14 +107,30 @@ pub fn meets(cover: &[Cube], c: &Cube) -> bool {
     cover.iter().any(|d| d.intersects(c))
 }
 
-/// The complement of `cover` (within the variables `nvars`) as a list of cubes.
+/// The complement of `cover` (within the variables `nvars`) as a list of pairwise
+/// disjoint cubes, sorted like [`scc`] leaves a cover.
 pub fn complement(cover: &[Cube], nvars: usize) -> Vec<Cube> {
-    let mut out = complement_rec(cover, crate::cube::mask(nvars));
-    scc(&mut out);
-    out
+    complement_within(cover, nvars, &Clock::unbounded()).unwrap_or_default()
 }
 
-fn complement_rec(cover: &[Cube], space: u64) -> Vec<Cube> {
+/// [`complement`] under a deadline: `None` when it passed first.
+pub(crate) fn complement_within(cover: &[Cube], nvars: usize, clock: &Clock) -> Option<Vec<Cube>> {
+    let mut out = complement_rec(cover, crate::cube::mask(nvars), clock);
+    if clock.expired() {
+        return None;
+    }
+    // The pieces are pairwise disjoint (De Morgan pieces are disjoint, the halves of a
+    // split are disjoint, and merged equal cubes stay disjoint from the rest), so no
+    // cube lies inside another: sorting is all single-cube containment would do.
+    out.sort_unstable_by_key(|c| (c.literal_count(), c.care_bits(), c.value_bits()));
+    out.dedup();
+    Some(out)
+}
+
+fn complement_rec(cover: &[Cube], space: u64, clock: &Clock) -> Vec<Cube> {
+    if clock.tick() {
+        return Vec::new();
+    }
     if cover.is_empty() {
         return vec![Cube::full()];
     }
@@ -147,8 +164,8 @@ fn complement_rec(cover: &[Cube], space: u64) -> Vec<Cube> {
     };
     let (lo, hi) = split(cover, v);
     let sub = space & !(1u64 << v);
-    let c0 = complement_rec(&lo, sub);
-    let c1 = complement_rec(&hi, sub);
+    let c0 = complement_rec(&lo, sub, clock);
+    let c1 = complement_rec(&hi, sub, clock);
     merge_halves(c0, c1, v)
 }
 
@@ -178,16 +195,24 @@ fn merge_halves(mut c0: Vec<Cube>, mut c1: Vec<Cube>, var: usize) -> Vec<Cube> {
 
 /// Pairwise intersection of two covers (single-cube containment applied).
 pub fn intersect(a: &[Cube], b: &[Cube]) -> Vec<Cube> {
+    intersect_within(a, b, &Clock::unbounded()).unwrap_or_default()
+}
+
+/// [`intersect`] under a deadline: `None` when it passed first.
+pub(crate) fn intersect_within(a: &[Cube], b: &[Cube], clock: &Clock) -> Option<Vec<Cube>> {
     let mut out = Vec::new();
     for x in a {
+        if clock.tick() {
+            return None;
+        }
         for y in b {
             if let Some(z) = x.intersection(y) {
                 out.push(z);
             }
         }
     }
-    scc(&mut out);
-    out
+    scc_within(&mut out, clock);
+    Some(out)
 }
 
 /// The points of cube `a` outside cube `b`, as disjoint cubes.
@@ -211,29 +236,64 @@ pub fn cube_minus(a: &Cube, b: &Cube) -> Vec<Cube> {
 /// The points of `cover` outside every cube of `minus` (a cover, single-cube
 /// containment applied).
 pub fn sharp(cover: &[Cube], minus: &[Cube]) -> Vec<Cube> {
+    sharp_within(cover, minus, &Clock::unbounded()).unwrap_or_default()
+}
+
+/// [`sharp`] under a deadline: `None` when it passed first.
+pub(crate) fn sharp_within(cover: &[Cube], minus: &[Cube], clock: &Clock) -> Option<Vec<Cube>> {
     let mut cur: Vec<Cube> = cover.to_vec();
     for b in minus {
+        if clock.tick() {
+            return None;
+        }
         let mut next = Vec::with_capacity(cur.len());
         for a in &cur {
             next.extend(cube_minus(a, b));
         }
         cur = next;
         if cur.len() > 64 {
-            scc(&mut cur);
+            scc_within(&mut cur, clock);
         }
     }
-    scc(&mut cur);
-    cur
+    scc_within(&mut cur, clock);
+    if clock.expired() {
+        None
+    } else {
+        Some(cur)
+    }
 }
 
 /// Single-cube containment: removes duplicates and cubes inside another cube of the
 /// list. The survivors are sorted (largest cubes first, then by their words).
 pub fn scc(cover: &mut Vec<Cube>) {
+    scc_within(cover, &Clock::unbounded());
+}
+
+/// [`scc`] under a deadline. When the deadline passes first the list is left sorted
+/// and free of duplicates, holding the same points, but possibly not containment-free.
+pub(crate) fn scc_within(cover: &mut Vec<Cube>, clock: &Clock) {
     cover.sort_unstable_by_key(|c| (c.literal_count(), c.care_bits(), c.value_bits()));
     cover.dedup();
+    if clock.expired() {
+        return;
+    }
+    // A cube can lie only inside a cube with fewer literals (equal ones are gone), and
+    // those come first: `smaller` counts the kept cubes with fewer literals than `c`.
     let mut kept: Vec<Cube> = Vec::with_capacity(cover.len());
-    for c in cover.iter() {
-        if !kept.iter().any(|k| k.contains(c)) {
+    let mut smaller = 0;
+    let mut level = 0;
+    for (i, c) in cover.iter().enumerate() {
+        let l = c.literal_count();
+        if l != level {
+            level = l;
+            smaller = kept.len();
+        }
+        if smaller > 64 && clock.tick() {
+            // Out of time: keep the rest unchecked (same points, still sorted).
+            kept.extend_from_slice(&cover[i..]);
+            break;
+        }
+        if !kept[..smaller].iter().any(|k| k.contains(c)) {
             kept.push(*c);
         }
     }

@@ -16,6 +16,7 @@
 //! 1956; Brayton et al. 1984; the Utah lecture skeleton cited in our methods brief
 //! §9.2) — from memory; the Lagrangian method as cited above.
 
+use crate::budget::Clock;
 use std::time::Instant;
 
 /// A covering problem: choose columns of least total cost so that every row holds a
@@ -128,6 +129,7 @@ struct Search<'a> {
     nodes: u64,
     stopped: bool,
     limits: Limits,
+    clock: Clock,
     /// Cover costs are `unit * h + l` with `0 <= l <= slack` (see [`Search::round`]).
     unit: u64,
     slack: u64,
@@ -193,6 +195,7 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
         nodes: 0,
         stopped: false,
         limits,
+        clock: Clock::until(limits.deadline),
         unit,
         slack,
         lagrangian,
@@ -310,21 +313,18 @@ impl Search<'_> {
                 }
             }
         }
-        let mut roots: Vec<usize> = Vec::new();
+        let mut group_of: Vec<usize> = vec![usize::MAX; ncol];
         let mut groups: Vec<(Vec<Bits>, Vec<[i64; 2]>)> = Vec::new();
         for (r, &u) in n.rows.iter().zip(&n.mult) {
             let first = ones(r).next().unwrap_or(0);
             let root = find(&mut parent, first);
-            match roots.iter().position(|&x| x == root) {
-                Some(k) => {
-                    groups[k].0.push(r.clone());
-                    groups[k].1.push(u);
-                }
-                None => {
-                    roots.push(root);
-                    groups.push((vec![r.clone()], vec![u]));
-                }
+            if group_of[root] == usize::MAX {
+                group_of[root] = groups.len();
+                groups.push((Vec::new(), Vec::new()));
             }
+            let k = group_of[root];
+            groups[k].0.push(r.clone());
+            groups[k].1.push(u);
         }
         if groups.len() == 1 {
             return vec![n.clone()];
@@ -361,26 +361,38 @@ impl Search<'_> {
                     *w &= *m;
                 }
             }
-            // Essential columns.
-            let mut i = 0;
-            while i < n.rows.len() {
-                let c = count(&n.rows[i]);
+            // Essential columns (all rows of one column at once: a row left with one
+            // column keeps it while other essential columns are taken).
+            let mut essential = vec![0u64; self.words];
+            let mut any = false;
+            for r in &n.rows {
+                let c = count(r);
                 if c == 0 {
                     return false;
                 }
                 if c == 1 {
-                    let col = ones(&n.rows[i]).next().unwrap_or(0);
+                    for (e, w) in essential.iter_mut().zip(r) {
+                        *e |= *w;
+                    }
+                    any = true;
+                }
+            }
+            if any {
+                for col in ones(&essential) {
                     n.chosen.push(col);
                     n.cost += self.cost[col];
-                    clear(&mut n.mask, col);
-                    n.retain_rows(|_, r| !has(r, col));
-                    changed = true;
-                    i = 0;
-                    continue;
                 }
-                i += 1;
+                for (m, e) in n.mask.iter_mut().zip(&essential) {
+                    *m &= !*e;
+                }
+                n.retain_rows(|_, r| disjoint(r, &essential));
+                continue;
             }
             if n.rows.is_empty() {
+                return true;
+            }
+            if self.clock.expired() {
+                // Out of time: the dominance reductions are optional.
                 return true;
             }
             // Column -> rows index over the current rows.
@@ -399,8 +411,16 @@ impl Search<'_> {
             // Candidates containing row a must hold a's first column.
             let mut dead = vec![false; nr];
             let mut order: Vec<usize> = (0..nr).collect();
-            order.sort_by_key(|&i| (count(&n.rows[i]), i));
+            let sizes: Vec<u32> = n.rows.iter().map(|r| count(r)).collect();
+            order.sort_by_key(|&i| (sizes[i], i));
+            let mut rank = vec![0usize; nr];
             for (pos, &a) in order.iter().enumerate() {
+                rank[a] = pos;
+            }
+            for (pos, &a) in order.iter().enumerate() {
+                if self.clock.tick() {
+                    break;
+                }
                 if dead[a] {
                     continue;
                 }
@@ -411,8 +431,7 @@ impl Search<'_> {
                     }
                     // Ties (equal rows): the later one in `order` dies.
                     if subset(&n.rows[a], &n.rows[b]) {
-                        let a_first =
-                            order.iter().position(|&x| x == b).unwrap_or(usize::MAX) > pos;
+                        let a_first = rank[b] > pos;
                         if n.rows[a] != n.rows[b] || a_first {
                             dead[b] = true;
                             changed = true;
@@ -436,6 +455,9 @@ impl Search<'_> {
                 }
             }
             for &c1 in &active {
+                if self.clock.tick() {
+                    break;
+                }
                 if !alive[c1] {
                     continue;
                 }
@@ -467,12 +489,13 @@ impl Search<'_> {
     /// greedy independent sets of rows (shortest rows first; rows meeting fewest other
     /// rows first), each row counting its cheapest column.
     fn mis_bound(&self, rows: &[Bits]) -> u64 {
+        let sizes: Vec<u32> = rows.iter().map(|r| count(r)).collect();
         let by_len = {
             let mut order: Vec<usize> = (0..rows.len()).collect();
-            order.sort_by_key(|&i| count(&rows[i]));
+            order.sort_by_key(|&i| sizes[i]);
             self.independent(rows, &order)
         };
-        if rows.len() < 4 {
+        if rows.len() < 4 || self.clock.expired() {
             return by_len;
         }
         // Degree of each row: how many rows share a column with it.
@@ -495,7 +518,7 @@ impl Search<'_> {
             degree[i] = count(&seen);
         }
         let mut order: Vec<usize> = (0..rows.len()).collect();
-        order.sort_by_key(|&i| (degree[i], count(&rows[i]), i));
+        order.sort_by_key(|&i| (degree[i], sizes[i], i));
         by_len.max(self.independent(rows, &order))
     }
 
@@ -513,51 +536,71 @@ impl Search<'_> {
         lb
     }
 
-    /// A greedy solution from node `n` (most rows per column, then cheaper), made
-    /// irredundant.
+    /// A greedy solution from node `n` (most rows per column, then cheaper, then the
+    /// lower index), made irredundant (last chosen first). Linear in the matrix size
+    /// plus one scan of the columns per pick, so it finishes even when the budget has
+    /// run out.
     fn greedy(&self, n: &Node) -> (u64, Vec<usize>) {
-        let mut rows: Vec<&Bits> = n.rows.iter().collect();
-        let mut chosen = n.chosen.clone();
+        let ncol = self.words * 64;
+        let mut colrows: Vec<Vec<u32>> = vec![Vec::new(); ncol];
+        for (i, r) in n.rows.iter().enumerate() {
+            for c in ones(r) {
+                colrows[c].push(i as u32);
+            }
+        }
+        let mut counts: Vec<u32> = colrows.iter().map(|v| v.len() as u32).collect();
+        let mut alive = vec![true; n.rows.len()];
+        let mut left = n.rows.len();
+        // Lazy max-heap on (rows held, cheaper, lower index): counts only fall, so an
+        // entry whose count is stale is pushed back with the current one.
+        let mut heap: std::collections::BinaryHeap<(u32, std::cmp::Reverse<(u64, usize)>)> =
+            ones(&n.mask)
+                .filter(|&c| counts[c] > 0)
+                .map(|c| (counts[c], std::cmp::Reverse((self.cost[c], c))))
+                .collect();
         let mut extra: Vec<usize> = Vec::new();
-        let mut counts = vec![0u32; self.words * 64];
-        while !rows.is_empty() {
-            counts.iter_mut().for_each(|c| *c = 0);
-            for r in &rows {
-                for c in ones(r) {
-                    counts[c] += 1;
-                }
-            }
-            let mut best = usize::MAX;
-            for c in ones(&n.mask) {
-                if counts[c] == 0 {
-                    continue;
-                }
-                if best == usize::MAX
-                    || counts[c] > counts[best]
-                    || (counts[c] == counts[best] && self.cost[c] < self.cost[best])
-                {
-                    best = c;
-                }
-            }
-            if best == usize::MAX {
+        while left > 0 {
+            let Some((k, std::cmp::Reverse((_, best)))) = heap.pop() else {
                 break;
+            };
+            if counts[best] == 0 {
+                continue;
+            }
+            if counts[best] != k {
+                heap.push((counts[best], std::cmp::Reverse((self.cost[best], best))));
+                continue;
             }
             extra.push(best);
-            rows.retain(|r| !has(r, best));
+            for &i in &colrows[best] {
+                let i = i as usize;
+                if alive[i] {
+                    alive[i] = false;
+                    left -= 1;
+                    for c in ones(&n.rows[i]) {
+                        counts[c] -= 1;
+                    }
+                }
+            }
         }
         // Irredundant: drop a chosen column whose rows are all covered by the others.
+        let mut held = vec![0u32; n.rows.len()];
+        for &c in &extra {
+            for &i in &colrows[c] {
+                held[i as usize] += 1;
+            }
+        }
         let mut k = extra.len();
         while k > 0 {
             k -= 1;
             let c = extra[k];
-            let needed = n
-                .rows
-                .iter()
-                .any(|r| has(r, c) && !extra.iter().any(|&o| o != c && has(r, o)));
-            if !needed {
+            if colrows[c].iter().all(|&i| held[i as usize] >= 2) {
+                for &i in &colrows[c] {
+                    held[i as usize] -= 1;
+                }
                 extra.remove(k);
             }
         }
+        let mut chosen = n.chosen.clone();
         chosen.extend(extra);
         let cost = chosen.iter().map(|&c| self.cost[c]).sum();
         (cost, chosen)
@@ -671,7 +714,7 @@ impl Search<'_> {
             if done(best_l) || f < 0.005 {
                 break;
             }
-            if it % 8 == 7 && Instant::now() >= self.limits.deadline {
+            if it % 8 == 7 && self.clock.now() {
                 self.stopped = true;
                 break;
             }
@@ -804,7 +847,7 @@ impl Search<'_> {
             return floor;
         }
         self.nodes += 1;
-        if self.nodes > self.limits.node_limit || Instant::now() >= self.limits.deadline {
+        if self.nodes > self.limits.node_limit || self.clock.now() {
             self.stopped = true;
             return floor;
         }

@@ -2,14 +2,14 @@
 //! rows (point signatures, required cubes, adjacent on-on pairs), then exact unate
 //! covering with cost (products, then literals).
 
-use crate::algebra::{intersect, meets, split};
+use crate::algebra::{intersect_within, meets, split};
+use crate::budget::Clock;
 use crate::covering::{self, Limits, Problem};
 use crate::cube::Cube;
-use crate::hazard::{dhf_split, OutputSpec};
-use crate::primes::primes;
-use crate::rows::point_rows;
-use crate::{Config, CoverError, OutputCover, Solution, Stats};
-use std::time::Instant;
+use crate::hazard::{dhf_split_within, OutputSpec};
+use crate::primes::primes_within;
+use crate::rows::point_rows_within;
+use crate::{fallback, Config, CoverError, OutputCover, Solution, Stats};
 
 /// Column cost: one product weighs more than any sum of literals.
 pub(crate) fn column_cost(c: &Cube) -> u64 {
@@ -20,14 +20,32 @@ pub(crate) fn column_cost(c: &Cube) -> u64 {
 /// not exact (reported as not optimal).
 const MAX_GROUPS: usize = 512;
 
+/// The exact minimum of every output within the budget; when the budget runs out
+/// before the covering search starts, a valid cover without search (see
+/// [`fallback`]).
 pub(crate) fn solve(
     specs: &[OutputSpec],
     cfg: &Config,
-    deadline: Instant,
+    clock: &Clock,
+    grace: &Clock,
 ) -> Result<Solution, CoverError> {
     let mut stats = Stats::default();
+    match solve_inner(specs, cfg, clock, &mut stats)? {
+        Some(sol) => Ok(sol),
+        None => fallback::solution(specs, grace, stats),
+    }
+}
+
+fn solve_inner(
+    specs: &[OutputSpec],
+    cfg: &Config,
+    clock: &Clock,
+    stats: &mut Stats,
+) -> Result<Option<Solution>, CoverError> {
     let limits = Limits {
-        deadline,
+        deadline: clock.deadline().unwrap_or_else(|| {
+            std::time::Instant::now() + std::time::Duration::from_secs(u32::MAX as u64)
+        }),
         node_limit: cfg.nodes(),
     };
     if !cfg.sharing() || specs.len() == 1 || specs.len() > 64 {
@@ -35,24 +53,35 @@ pub(crate) fn solve(
         let mut all_opt = true;
         let mut lb = 0;
         for (j, s) in specs.iter().enumerate() {
-            let (cands, nprimes) = group_candidates(specs, 1u64 << j.min(63), &[j]);
+            let Some((cands, nprimes)) = group_candidates(specs, &[j], clock) else {
+                return Ok(None);
+            };
             stats.primes += nprimes;
             let valid = vec![1u64; cands.len()];
             let groups = vec![j];
-            let (oc, opt, bound) = cover_problem(
+            let Some((oc, opt, bound)) = cover_problem(
                 std::slice::from_ref(s),
                 &cands,
                 &valid,
                 &groups,
                 limits,
-                &mut stats,
-            )?;
+                clock,
+                stats,
+            )?
+            else {
+                return Ok(None);
+            };
             let oc = oc.into_iter().next().expect("one output");
             all_opt &= opt;
             lb = lb.max(bound);
             outs.push(oc);
         }
-        return Ok(Solution::assemble(outs, all_opt, lb, stats));
+        return Ok(Some(Solution::assemble(
+            outs,
+            all_opt,
+            lb,
+            std::mem::take(stats),
+        )));
     }
     // Shared candidates: for each group of outputs whose on-sets can share a product,
     // the dhf-primes of the intersection of their on+dc sets.
@@ -71,23 +100,32 @@ pub(crate) fn solve(
     }
     stack.reverse();
     while let Some((mask, last, g)) = stack.pop() {
+        if clock.now() {
+            return Ok(None);
+        }
         groups += 1;
         if groups > MAX_GROUPS {
             complete = false;
             break;
         }
         let members: Vec<usize> = (0..m).filter(|&j| mask >> j & 1 == 1).collect();
-        let mut p = primes(&g);
+        let Some(p) = primes_within(&g, clock) else {
+            return Ok(None);
+        };
         stats.primes += p.len();
         let privs: Vec<_> = members
             .iter()
             .flat_map(|&j| specs[j].privileged.iter().copied())
             .collect();
-        p = dhf_split(p, &privs);
+        let Some(p) = dhf_split_within(p, &privs, clock) else {
+            return Ok(None);
+        };
         // Keep only cubes legal for every member (the split handles privileged cubes).
         cands.extend(p);
         for k in (last + 1..m).rev() {
-            let h = intersect(&g, &ondc[k]);
+            let Some(h) = intersect_within(&g, &ondc[k], clock) else {
+                return Ok(None);
+            };
             // Useful only if every member still has an on-set point in it.
             let useful = members
                 .iter()
@@ -111,6 +149,9 @@ pub(crate) fn solve(
     // Drop candidates dominated by a larger candidate valid for at least the same outputs.
     let mut keep = vec![true; cands.len()];
     for i in 0..cands.len() {
+        if clock.tick() {
+            return Ok(None);
+        }
         if valid[i] == 0 {
             keep[i] = false;
             continue;
@@ -138,8 +179,11 @@ pub(crate) fn solve(
     let cands = c2;
     valid = v2;
     let idx: Vec<usize> = (0..m).collect();
-    let (mut outs, mut opt, mut lb) =
-        cover_problem(specs, &cands, &valid, &idx, limits, &mut stats)?;
+    let Some((mut outs, mut opt, mut lb)) =
+        cover_problem(specs, &cands, &valid, &idx, limits, clock, stats)?
+    else {
+        return Ok(None);
+    };
     if !complete {
         opt = false;
         lb = outs.iter().map(|o| o.lower_bound).max().unwrap_or(0);
@@ -147,30 +191,44 @@ pub(crate) fn solve(
             o.optimal = o.cubes.len() == o.lower_bound;
         }
     }
-    Ok(Solution::assemble(outs, opt, lb, stats))
+    Ok(Some(Solution::assemble(
+        outs,
+        opt,
+        lb,
+        std::mem::take(stats),
+    )))
 }
 
-/// The dhf-primes of output `j` alone; returns them and the number of primes.
-fn group_candidates(specs: &[OutputSpec], _mask: u64, members: &[usize]) -> (Vec<Cube>, usize) {
+/// The dhf-primes of output `j` alone and the number of primes; `None` when the
+/// budget ran out.
+fn group_candidates(
+    specs: &[OutputSpec],
+    members: &[usize],
+    clock: &Clock,
+) -> Option<(Vec<Cube>, usize)> {
     let j = members[0];
     let s = &specs[j];
     let ondc: Vec<Cube> = s.on.iter().chain(&s.dc).copied().collect();
-    let p = primes(&ondc);
+    let p = primes_within(&ondc, clock)?;
     let n = p.len();
-    (dhf_split(p, &s.privileged), n)
+    Some((dhf_split_within(p, &s.privileged, clock)?, n))
 }
 
 /// Builds and solves the covering problem of `specs` over candidate columns `cands`
 /// (`valid[c]` bit `k` = legal for `specs[k]`). Returns the covers, whether optimal,
-/// and the lower bound on distinct products.
+/// and the lower bound on distinct products; `None` when the budget ran out before the
+/// covering search.
+type Covered = (Vec<OutputCover>, bool, usize);
+#[allow(clippy::too_many_arguments)]
 fn cover_problem(
     specs: &[OutputSpec],
     cands: &[Cube],
     valid: &[u64],
     _ids: &[usize],
     limits: Limits,
+    clock: &Clock,
     stats: &mut Stats,
-) -> Result<(Vec<OutputCover>, bool, usize), CoverError> {
+) -> Result<Option<Covered>, CoverError> {
     let mut rows: Vec<Vec<usize>> = Vec::new();
     let mut row_owner: Vec<usize> = Vec::new();
     for (k, s) in specs.iter().enumerate() {
@@ -197,7 +255,9 @@ fn cover_problem(
             rows.push(cols);
             row_owner.push(k);
         }
-        let pr = point_rows(Cube::full(), &s.on, cands, &cols_k);
+        let Some(pr) = point_rows_within(Cube::full(), &s.on, cands, &cols_k, clock) else {
+            return Ok(None);
+        };
         for r in pr {
             if r.is_empty() {
                 return Err(no_cover_for_point(s));
@@ -208,7 +268,9 @@ fn cover_problem(
         if s.adjacent_pairs {
             for v in 0..s.nvars {
                 let (lo, hi) = split(&s.on, v);
-                let edges = intersect(&lo, &hi);
+                let Some(edges) = intersect_within(&lo, &hi, clock) else {
+                    return Ok(None);
+                };
                 if edges.is_empty() {
                     continue;
                 }
@@ -217,7 +279,11 @@ fn cover_problem(
                     .copied()
                     .filter(|&c| cands[c].literal(v).is_none())
                     .collect();
-                for r in point_rows(Cube::full(), &edges, cands, &cols_v) {
+                let Some(pr) = point_rows_within(Cube::full(), &edges, cands, &cols_v, clock)
+                else {
+                    return Ok(None);
+                };
+                for r in pr {
                     if r.is_empty() {
                         return Err(no_cover_for_point(s));
                     }
@@ -240,6 +306,7 @@ fn cover_problem(
         Err(_) => return Err(no_cover_for_point(&specs[0])),
     };
     stats.nodes += out.nodes;
+    stats.stopped |= !out.optimal;
     stats.core.0 += out.core.0;
     stats.core.1 += out.core.1;
     let chosen = out.cols.clone();
@@ -252,25 +319,42 @@ fn cover_problem(
             .filter(|(_, &o)| o == k)
             .map(|(r, _)| r)
             .collect();
+        // This output's rows of each chosen column, and how many chosen columns
+        // hold each row.
+        let mut pos = vec![usize::MAX; cands.len()];
+        for (i, &c) in chosen.iter().enumerate() {
+            if valid[c] >> k & 1 == 1 {
+                pos[c] = i;
+            }
+        }
+        let mut rows_of: Vec<Vec<u32>> = vec![Vec::new(); chosen.len()];
+        let mut held = vec![0u32; my_rows.len()];
+        for (ri, r) in my_rows.iter().enumerate() {
+            for &c in r.iter() {
+                if pos[c] != usize::MAX {
+                    rows_of[pos[c]].push(ri as u32);
+                    held[ri] += 1;
+                }
+            }
+        }
         let mut mine: Vec<usize> = chosen
             .iter()
             .copied()
-            .filter(|&c| valid[c] >> k & 1 == 1 && my_rows.iter().any(|r| r.contains(&c)))
+            .filter(|&c| pos[c] != usize::MAX && !rows_of[pos[c]].is_empty())
             .collect();
         // Irredundant for this output: drop a product whose rows others also cover.
         mine.sort_by_key(|&c| std::cmp::Reverse(cands[c].literal_count()));
-        let mut i = 0;
-        while i < mine.len() {
-            let c = mine[i];
-            let needed = my_rows
-                .iter()
-                .any(|r| r.contains(&c) && !mine.iter().any(|&o| o != c && r.contains(&o)));
-            if needed {
-                i += 1;
+        mine.retain(|&c| {
+            let rs = &rows_of[pos[c]];
+            if rs.iter().all(|&ri| held[ri as usize] >= 2) {
+                for &ri in rs {
+                    held[ri as usize] -= 1;
+                }
+                false
             } else {
-                mine.remove(i);
+                true
             }
-        }
+        });
         let mut cubes: Vec<Cube> = mine.iter().map(|&c| cands[c]).collect();
         cubes.sort();
         let own_lb = independent_rows(&my_rows);
@@ -286,7 +370,7 @@ fn cover_problem(
             lower_bound,
         });
     }
-    Ok((outs, out.optimal, (out.lower_bound >> 32) as usize))
+    Ok(Some((outs, out.optimal, (out.lower_bound >> 32) as usize)))
 }
 
 fn no_cover_for_point(s: &OutputSpec) -> CoverError {

@@ -358,7 +358,7 @@ fn build(vars: Vec<String>, raws: Vec<RawOutput>) -> Result<MultiFunction, FileE
                     return Err(FileError::at(
                         *p,
                         format!(
-                            "this don't-care entry overlaps the on-set entry at {}:{}",
+                            "this don't-care entry overlaps the on-set entry at {}:{} (a point in both \"on\" and \"dc\")",
                             q.line, q.col
                         ),
                     ));
@@ -522,9 +522,18 @@ pub fn parse_text(src: &str) -> Result<MultiFunction, FileError> {
                                 format!("range {t} is too long (more than 2^20 minterms; give cubes in the JSON form instead)"),
                             ));
                         }
-                        for m in lo..=hi {
-                            let list = if kw == "on" { &mut raw.on } else { &mut raw.dc };
-                            list.push((Entry::Minterm(m), tp));
+                        let list = if kw == "on" { &mut raw.on } else { &mut raw.dc };
+                        if hi - lo < RANGE_AS_MINTERMS {
+                            for m in lo..=hi {
+                                list.push((Entry::Minterm(m), tp));
+                            }
+                        } else {
+                            // A long range as aligned blocks (at most 2n cubes).
+                            list.extend(
+                                range_cubes(lo, hi, n)
+                                    .into_iter()
+                                    .map(|c| (Entry::Cube(c), tp)),
+                            );
                         }
                     } else {
                         let m = number((c, t), n, ln)?;
@@ -552,6 +561,37 @@ pub fn parse_text(src: &str) -> Result<MultiFunction, FileError> {
         });
     }
     build(vars, raws)
+}
+
+/// Ranges of up to this many minterms are kept as minterms; longer ones as cubes.
+const RANGE_AS_MINTERMS: u64 = 64;
+
+/// The minterms `lo..=hi` over `n` variables as aligned blocks: each block of `2^k`
+/// minterms starting at a multiple of `2^k` is one cube with the last `k` variables
+/// free (`vars[0]` is the most significant bit).
+fn range_cubes(lo: u64, hi: u64, n: usize) -> Vec<Cube> {
+    let mut out = Vec::new();
+    let mut m = lo;
+    loop {
+        let mut k = 0u32;
+        while k < 63
+            && m % (1u64 << (k + 1)) == 0
+            && m.checked_add((1u64 << (k + 1)) - 1)
+                .is_some_and(|e| e <= hi)
+        {
+            k += 1;
+        }
+        let mut c = Cube::minterm(n, m);
+        for j in 0..k as usize {
+            c = c.with_literal(n - 1 - j, None);
+        }
+        out.push(c);
+        match m.checked_add(1u64 << k) {
+            Some(next) if next <= hi => m = next,
+            _ => break,
+        }
+    }
+    out
 }
 
 /// Whitespace-separated tokens with their 1-based columns (in characters).
@@ -620,5 +660,33 @@ mod tests {
         assert_eq!((e.line, e.col), (2, 7));
         let e = parse_text("on 1\n").unwrap_err();
         assert_eq!((e.line, e.col), (1, 1));
+    }
+
+    #[test]
+    fn long_ranges_are_kept_as_cubes() {
+        for (lo, hi) in [(0u64, 255u64), (3, 200), (100, 230), (1, 254)] {
+            let mf = parse_text(&format!("vars a b c d e f g h\non {lo}..{hi}\n")).unwrap();
+            let f = &mf.outputs[0].1;
+            assert!(
+                f.on_cubes().len() <= 16,
+                "{lo}..{hi}: {} cubes",
+                f.on_cubes().len()
+            );
+            for m in 0..256u64 {
+                assert_eq!(
+                    f.value(m),
+                    Some((lo..=hi).contains(&m)),
+                    "{lo}..{hi} at {m}"
+                );
+            }
+        }
+        // Thirty variables, 2^20 minterms: one cube.
+        let vars: Vec<String> = (0..30).map(|i| format!("v{i}")).collect();
+        let mf = parse_text(&format!("vars {}\non 0..1048575\n", vars.join(" "))).unwrap();
+        assert_eq!(mf.outputs[0].1.on_cubes().len(), 1);
+        // An overlap with a long range is located at the don't-care entry.
+        let e = parse_text("vars a b c d e f g\non 0..100\ndc 7\n").unwrap_err();
+        assert_eq!((e.line, e.col), (3, 4));
+        assert!(e.message.contains("both"), "{}", e.message);
     }
 }

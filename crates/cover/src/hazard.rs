@@ -12,7 +12,8 @@
 //! stay free: every product meeting the cube must hold its 1-end point, so whatever
 //! value the cover gives them is monotone along the transition.
 
-use crate::algebra::{complement, meets, scc, sharp, witness};
+use crate::algebra::{complement_within, meets, scc, scc_within, sharp_within, witness};
+use crate::budget::Clock;
 use crate::cube::Cube;
 use crate::function::{Function, Transition};
 use crate::{CoverError, HazardMode};
@@ -93,10 +94,25 @@ impl OutputSpec {
 /// function-hazard-free, [`CoverError::NoHazardFreeCover`] when some required cube lies
 /// in no dhf-implicant.
 pub fn prepare(name: &str, f: &Function, mode: HazardMode) -> Result<OutputSpec, CoverError> {
+    prepare_within(name, f, mode, &Clock::unbounded()).map(|s| s.expect("no deadline"))
+}
+
+/// [`prepare`] under a deadline: `Ok(None)` when it passed first.
+pub(crate) fn prepare_within(
+    name: &str,
+    f: &Function,
+    mode: HazardMode,
+    clock: &Clock,
+) -> Result<Option<OutputSpec>, CoverError> {
     let n = f.nvars();
     let on: Vec<Cube> = f.on_cubes().to_vec();
     let dc: Vec<Cube> = f.dc_cubes().to_vec();
-    let off = f.off_cubes();
+    let mut all = on.clone();
+    all.extend_from_slice(&dc);
+    let Some(off) = complement_within(&all, n, clock) else {
+        return Ok(None);
+    };
+    drop(all);
     let mut spec = OutputSpec {
         name: name.to_string(),
         nvars: n,
@@ -108,7 +124,7 @@ pub fn prepare(name: &str, f: &Function, mode: HazardMode) -> Result<OutputSpec,
         adjacent_pairs: mode == HazardMode::Static,
     };
     if mode != HazardMode::Full {
-        return Ok(spec);
+        return Ok(Some(spec));
     }
     let hazard = |t: &Transition, reason: String| CoverError::FunctionHazard {
         output: name.to_string(),
@@ -167,11 +183,14 @@ pub fn prepare(name: &str, f: &Function, mode: HazardMode) -> Result<OutputSpec,
         }
     }
     let forced: Vec<Cube> = ones.iter().chain(&zeros).map(|(c, _)| *c).collect();
-    spec.dc = sharp(&spec.dc, &forced);
+    let Some(dc) = sharp_within(&spec.dc, &forced, clock) else {
+        return Ok(None);
+    };
+    spec.dc = dc;
     spec.on.extend(ones.iter().map(|(c, _)| *c));
-    scc(&mut spec.on);
+    scc_within(&mut spec.on, clock);
     spec.off.extend(zeros.iter().map(|(c, _)| *c));
-    scc(&mut spec.off);
+    scc_within(&mut spec.off, clock);
     for (c, t) in &ones {
         spec.required.push(Required {
             cube: *c,
@@ -248,8 +267,7 @@ pub fn prepare(name: &str, f: &Function, mode: HazardMode) -> Result<OutputSpec,
             });
         }
     }
-    let _ = complement;
-    Ok(spec)
+    Ok(Some(spec))
 }
 
 /// The point of `part` farthest from point `p` (free variables take `p`'s opposite).
@@ -267,8 +285,24 @@ fn far_point(p: &Cube, part: &Cube, n: usize) -> Cube {
 /// start point is replaced by its maximal subcubes disjoint from that cube; repeated
 /// against every privileged cube, then containment-reduced (methods brief §7.3 step 2).
 pub fn dhf_split(primes: Vec<Cube>, privileged: &[Privileged]) -> Vec<Cube> {
+    dhf_split_within(primes, privileged, &Clock::unbounded()).unwrap_or_default()
+}
+
+/// [`dhf_split`] under a deadline: `None` when it passed first.
+pub(crate) fn dhf_split_within(
+    primes: Vec<Cube>,
+    privileged: &[Privileged],
+    clock: &Clock,
+) -> Option<Vec<Cube>> {
     let mut work = primes;
+    if privileged.is_empty() {
+        work.sort();
+        return Some(work);
+    }
     for p in privileged {
+        if clock.now() {
+            return None;
+        }
         let mut next = Vec::with_capacity(work.len());
         for c in work {
             if !p.cube.intersects(&c) || c.contains(&p.start) {
@@ -282,13 +316,16 @@ pub fn dhf_split(primes: Vec<Cube>, privileged: &[Privileged]) -> Vec<Cube> {
                 bits &= bits - 1;
             }
         }
-        scc(&mut next);
+        scc_within(&mut next, clock);
         work = next;
     }
     // A piece split off for one privileged cube may meet an earlier one illegally only
     // if it met it before; pieces are subcubes, so one more pass settles it.
     let mut changed = true;
     while changed {
+        if clock.now() {
+            return None;
+        }
         changed = false;
         let mut next = Vec::with_capacity(work.len());
         for c in work {
@@ -307,9 +344,12 @@ pub fn dhf_split(primes: Vec<Cube>, privileged: &[Privileged]) -> Vec<Cube> {
                 next.push(c);
             }
         }
-        scc(&mut next);
+        scc_within(&mut next, clock);
         work = next;
     }
+    if clock.expired() {
+        return None;
+    }
     work.sort();
-    work
+    Some(work)
 }

@@ -5,22 +5,42 @@
 //! constrained irredundant pass). Heuristic: no optimality claim; a lower bound from
 //! pairwise incompatible points is reported so the gap is known.
 
-use crate::algebra::{complement, covers_cube, intersect, scc, sharp, split, tautology};
+use crate::algebra::{
+    complement, covers_cube, intersect_within, scc, sharp_within, split, tautology,
+};
+use crate::budget::Clock;
 use crate::cube::Cube;
 use crate::hazard::OutputSpec;
-use crate::{Config, OutputCover, Solution, Stats};
-use std::time::Instant;
+use crate::{Config, CoverError, OutputCover, Solution, Stats};
 
-pub(crate) fn solve(specs: &[OutputSpec], cfg: &Config, deadline: Instant) -> Solution {
-    let mut covers: Vec<Vec<Cube>> = specs.iter().map(|s| cover_one(s, deadline)).collect();
-    if cfg.sharing() && specs.len() > 1 {
-        share(specs, &mut covers);
+/// The heuristic covers of every output. The loop stops when `clock` runs out; what
+/// validity still needs (static mode's pair terms) and the bound get until `grace`.
+pub(crate) fn solve(
+    specs: &[OutputSpec],
+    cfg: &Config,
+    clock: &Clock,
+    grace: &Clock,
+) -> Result<Solution, CoverError> {
+    let mut covers: Vec<Vec<Cube>> = Vec::with_capacity(specs.len());
+    for s in specs {
+        match cover_one(s, clock, grace) {
+            Some(c) => covers.push(c),
+            None => return Err(CoverError::BudgetExhausted {
+                output: s.name.clone(),
+                reason:
+                    "the budget ran out before a valid cover could be built; give a larger --budget"
+                        .into(),
+            }),
+        }
+    }
+    if cfg.sharing() && specs.len() > 1 && !clock.now() {
+        share(specs, &mut covers, clock);
     }
     let mut outs = Vec::with_capacity(specs.len());
     let mut lb_all = 0;
     for (s, mut cubes) in specs.iter().zip(covers) {
         cubes.sort();
-        let lb = lower_bound(s, &cubes);
+        let lb = lower_bound(s, &cubes, grace);
         lb_all = lb_all.max(lb);
         outs.push(OutputCover {
             name: s.name.clone(),
@@ -31,29 +51,35 @@ pub(crate) fn solve(specs: &[OutputSpec], cfg: &Config, deadline: Instant) -> So
     }
     let stats = Stats {
         heuristic: true,
+        stopped: clock.expired(),
         ..Stats::default()
     };
     let mut sol = Solution::assemble(outs, false, lb_all, stats);
     sol.optimal = sol.cube_count <= sol.lower_bound;
-    sol
+    Ok(sol)
 }
 
-/// Heuristic cover of one output.
-pub(crate) fn cover_one(s: &OutputSpec, deadline: Instant) -> Vec<Cube> {
+/// Heuristic cover of one output; `None` when even the grace period ran out before a
+/// valid cover was built.
+pub(crate) fn cover_one(s: &OutputSpec, clock: &Clock, grace: &Clock) -> Option<Vec<Cube>> {
     // Start: required cubes (closed under the privileged rule) and the on-set outside
     // every privileged cube (its points inside one are held by required cubes).
     let mut f: Vec<Cube> = s.required.iter().map(|r| s.closure(&r.cube)).collect();
     let privs: Vec<Cube> = s.privileged.iter().map(|p| p.cube).collect();
-    f.extend(sharp(&s.on, &privs));
+    if privs.is_empty() {
+        f.extend_from_slice(&s.on);
+    } else {
+        f.extend(sharp_within(&s.on, &privs, grace)?);
+    }
     scc(&mut f);
-    let mut f = expand_all(s, f);
-    irredundant(s, &mut f, None);
+    let mut f = expand_all(s, f, clock);
+    irredundant(s, &mut f, None, clock);
     let mut best = f.clone();
     let mut stale = 0;
-    while stale < 2 && Instant::now() < deadline {
-        reduce(s, &mut f);
-        f = expand_all(s, f);
-        irredundant(s, &mut f, None);
+    while stale < 2 && !clock.now() {
+        reduce(s, &mut f, clock);
+        f = expand_all(s, f, clock);
+        irredundant(s, &mut f, None, clock);
         if cost(&f) < cost(&best) {
             best = f.clone();
             stale = 0;
@@ -63,19 +89,23 @@ pub(crate) fn cover_one(s: &OutputSpec, deadline: Instant) -> Vec<Cube> {
     }
     let mut f = best;
     if s.adjacent_pairs {
-        let edges = edges(s);
-        add_pair_terms(s, &mut f, &edges);
-        irredundant(s, &mut f, Some(&edges));
+        let edges = edges_within(s, grace)?;
+        add_pair_terms(s, &mut f, &edges, clock, grace)?;
+        irredundant(s, &mut f, Some(&edges), clock);
     }
-    f
+    Some(f)
 }
 
 /// For each variable `v`, the adjacent on-on pairs along `v` as cubes with `v` free.
 pub(crate) fn edges(s: &OutputSpec) -> Vec<Vec<Cube>> {
+    edges_within(s, &Clock::unbounded()).unwrap_or_default()
+}
+
+fn edges_within(s: &OutputSpec, clock: &Clock) -> Option<Vec<Vec<Cube>>> {
     (0..s.nvars)
         .map(|v| {
             let (lo, hi) = split(&s.on, v);
-            intersect(&lo, &hi)
+            intersect_within(&lo, &hi, clock)
         })
         .collect()
 }
@@ -85,12 +115,17 @@ fn cost(f: &[Cube]) -> (usize, usize) {
 }
 
 /// Expands every cube to a maximal legal cube, largest first, dropping cubes it covers.
-fn expand_all(s: &OutputSpec, mut f: Vec<Cube>) -> Vec<Cube> {
+fn expand_all(s: &OutputSpec, mut f: Vec<Cube>, clock: &Clock) -> Vec<Cube> {
     f.sort_by_key(|c| (c.literal_count(), *c));
     let mut done: Vec<Cube> = Vec::with_capacity(f.len());
     for i in 0..f.len() {
         let c = f[i];
         if done.iter().any(|d| d.contains(&c)) {
+            continue;
+        }
+        if clock.tick() {
+            // Out of time: the rest stays as it is.
+            done.push(c);
             continue;
         }
         let e = expand(s, c, &f[i + 1..]);
@@ -125,10 +160,13 @@ fn expand(s: &OutputSpec, c: Cube, others: &[Cube]) -> Cube {
 
 /// Removes products not needed for the on-set, the required cubes and (when `pairs`)
 /// the adjacent on-on pairs; most-literal products are tried first.
-fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: Option<&[Vec<Cube>]>) {
+fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: Option<&[Vec<Cube>]>, clock: &Clock) {
     f.sort_by_key(|c| (std::cmp::Reverse(c.literal_count()), *c));
     let mut i = 0;
     while i < f.len() {
+        if clock.tick() {
+            return;
+        }
         let c = f[i];
         let mut removable = tautology(&rest_cofactor(f, i, &s.dc, &c));
         let others = || -> Vec<Cube> {
@@ -180,7 +218,15 @@ fn pairs_held_without(c: &Cube, others: &[Cube], all_edges: &[Vec<Cube>]) -> boo
 
 /// Adds, for every adjacent on-on pair held by no single product, a maximal legal cube
 /// holding it (consensus terms).
-fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>, all_edges: &[Vec<Cube>]) {
+/// When `clock` runs out the open pairs are added as they are (each lies in the
+/// on-set); `None` when `grace` runs out too.
+fn add_pair_terms(
+    s: &OutputSpec,
+    f: &mut Vec<Cube>,
+    all_edges: &[Vec<Cube>],
+    clock: &Clock,
+    grace: &Clock,
+) -> Option<()> {
     for (v, edges) in all_edges.iter().enumerate() {
         if edges.is_empty() {
             continue;
@@ -190,14 +236,19 @@ fn add_pair_terms(s: &OutputSpec, f: &mut Vec<Cube>, all_edges: &[Vec<Cube>]) {
             .copied()
             .filter(|d| d.literal(v).is_none())
             .collect();
-        let mut open = sharp(edges, &holders);
+        let mut open = sharp_within(edges, &holders, grace)?;
         while let Some(&u) = open.first() {
+            if clock.tick() {
+                f.extend_from_slice(&open);
+                break;
+            }
             let e = expand(s, u, &open[1..]);
             f.push(e);
-            open = sharp(&open, &[e]);
+            open = sharp_within(&open, &[e], grace)?;
         }
     }
     scc(f);
+    Some(())
 }
 
 /// The cofactor by `c` of every cube of `f` but `f[skip]`, plus the don't-cares.
@@ -222,8 +273,11 @@ fn only_in(f: &[Cube], skip: usize, dc: &[Cube], c: &Cube, nvars: usize) -> Vec<
 }
 
 /// Shrinks each product to the smallest cube holding what only it covers.
-fn reduce(s: &OutputSpec, f: &mut [Cube]) {
+fn reduce(s: &OutputSpec, f: &mut [Cube], clock: &Clock) {
     for i in 0..f.len() {
+        if clock.tick() {
+            return;
+        }
         let c = f[i];
         let mut pieces = only_in(f, i, &s.dc, &c, s.nvars);
         for r in &s.required {
@@ -249,7 +303,7 @@ fn reduce(s: &OutputSpec, f: &mut [Cube]) {
 
 /// Lets outputs use each other's products where legal and larger, then drops what is
 /// redundant, so common products are shared.
-fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>]) {
+fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>], clock: &Clock) {
     let pool: Vec<Cube> = {
         let mut p: Vec<Cube> = covers.iter().flatten().copied().collect();
         p.sort();
@@ -269,21 +323,29 @@ fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>]) {
         } else {
             Vec::new()
         };
-        irredundant(s, &mut f, if s.adjacent_pairs { Some(&e) } else { None });
+        irredundant(
+            s,
+            &mut f,
+            if s.adjacent_pairs { Some(&e) } else { None },
+            clock,
+        );
         covers[k] = f;
     }
 }
 
 /// A lower bound on the products of one output: a greedy set of points and required
 /// cubes no two of which fit in one legal product.
-pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
+pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube], clock: &Clock) -> usize {
     let pair_edges = if s.adjacent_pairs {
-        Some(edges(s))
+        edges_within(s, clock)
     } else {
         None
     };
     let mut items: Vec<Cube> = s.required.iter().map(|r| r.cube).collect();
     for (i, c) in cover.iter().enumerate() {
+        if clock.tick() {
+            break;
+        }
         let only = only_in(cover, i, &s.dc, c, s.nvars);
         if let Some(p) = only.first() {
             items.push(Cube::from_words(crate::cube::mask(s.nvars), p.value_bits()));
@@ -302,7 +364,8 @@ pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
                     .map(|(_, d)| *d)
                     .collect();
                 let mine: Vec<Cube> = ev.iter().filter_map(|e| e.intersection(c)).collect();
-                if let Some(p) = sharp(&mine, &holders).first() {
+                let open = sharp_within(&mine, &holders, clock).unwrap_or_default();
+                if let Some(p) = open.first() {
                     let m = crate::cube::mask(s.nvars) & !(1u64 << v);
                     items.push(Cube::from_words(m, p.value_bits()));
                     break;
@@ -314,6 +377,9 @@ pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube]) -> usize {
     items.dedup();
     let mut chosen: Vec<Cube> = Vec::new();
     for it in items {
+        if clock.tick() {
+            break;
+        }
         // Every item must be needed: an on-set point or an adjacent on-on pair.
         if !s.on.iter().any(|o| o.contains(&it)) {
             continue;

@@ -39,9 +39,11 @@
 #![deny(missing_docs)]
 
 pub mod algebra;
+mod budget;
 pub mod covering;
 mod cube;
 mod exact;
+mod fallback;
 pub mod file;
 mod function;
 pub mod hazard;
@@ -123,6 +125,16 @@ pub enum CoverError {
         /// The transition that prevents it.
         transition: Transition,
         /// Why, naming the transition as minterms and cube strings.
+        reason: String,
+    },
+    /// The budget ran out before any valid cover of the mode could be built (only in
+    /// static and full mode on very large inputs: a plain cover always exists, the
+    /// on-set itself).
+    #[error("output {output}: {reason}")]
+    BudgetExhausted {
+        /// The output.
+        output: String,
+        /// What ran out and what to do.
         reason: String,
     },
     /// The function description is inconsistent (outputs, variable count).
@@ -283,6 +295,10 @@ pub struct Stats {
     pub nodes: u64,
     /// Whether the heuristic produced the covers.
     pub heuristic: bool,
+    /// Whether the budget (time or nodes) stopped a phase before it finished; the
+    /// covers are then the best found (or, when no search had started, a valid cover
+    /// built without search) and `optimal` holds only if the count meets the bound.
+    pub stopped: bool,
     /// Wall time.
     pub elapsed: Duration,
 }
@@ -358,14 +374,31 @@ impl Solution {
 pub fn minimize(f: &MultiFunction, cfg: &Config) -> Result<Solution, CoverError> {
     let started = Instant::now();
     f.validate()?;
+    let deadline = started.checked_add(cfg.budget);
+    let clock = match deadline {
+        Some(d) => budget::Clock::until(d),
+        None => budget::Clock::unbounded(),
+    };
+    // A short grace period for building a valid cover once the budget is spent.
+    let grace_span = (cfg.budget / 20).max(Duration::from_millis(5));
+    let grace = match deadline.and_then(|d| d.checked_add(grace_span)) {
+        Some(d) => budget::Clock::until(d),
+        None => budget::Clock::unbounded(),
+    };
     let mut specs = Vec::with_capacity(f.outputs.len());
     for (name, func) in &f.outputs {
-        specs.push(hazard::prepare(name, func, cfg.hazards)?);
+        match hazard::prepare_within(name, func, cfg.hazards, &clock)? {
+            Some(s) => specs.push(s),
+            None => {
+                let mut sol = fallback::unprepared(f, cfg.hazards, &grace, Stats::default())?;
+                sol.stats.elapsed = started.elapsed();
+                return Ok(sol);
+            }
+        }
     }
-    let deadline = started + cfg.budget;
     let mut sol = match cfg.effort {
-        Effort::Exact => exact::solve(&specs, cfg, deadline)?,
-        Effort::Fast => heuristic::solve(&specs, cfg, deadline),
+        Effort::Exact => exact::solve(&specs, cfg, &clock, &grace)?,
+        Effort::Fast => heuristic::solve(&specs, cfg, &clock, &grace)?,
     };
     sol.stats.elapsed = started.elapsed();
     Ok(sol)

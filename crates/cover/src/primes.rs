@@ -8,7 +8,8 @@
 //! the number of primes can grow like `3^n / n`; the pairwise step is quadratic in the
 //! primes of the two halves.
 
-use crate::algebra::{binate_var, scc, split};
+use crate::algebra::{binate_var, scc_within, split};
+use crate::budget::Clock;
 use crate::cube::Cube;
 
 /// All prime implicants of the union of `cover` (the on-set plus don't-cares), sorted.
@@ -22,14 +23,25 @@ use crate::cube::Cube;
 /// # Ok::<(), Box<dyn std::error::Error>>(())
 /// ```
 pub fn primes(cover: &[Cube]) -> Vec<Cube> {
-    let mut start = cover.to_vec();
-    scc(&mut start);
-    let mut p = primes_rec(start);
-    p.sort();
-    p
+    primes_within(cover, &Clock::unbounded()).unwrap_or_default()
 }
 
-fn primes_rec(cover: Vec<Cube>) -> Vec<Cube> {
+/// [`primes`] under a deadline: `None` when it passed first.
+pub(crate) fn primes_within(cover: &[Cube], clock: &Clock) -> Option<Vec<Cube>> {
+    let mut start = cover.to_vec();
+    scc_within(&mut start, clock);
+    let mut p = primes_rec(start, clock);
+    if clock.expired() {
+        return None;
+    }
+    p.sort();
+    Some(p)
+}
+
+fn primes_rec(cover: Vec<Cube>, clock: &Clock) -> Vec<Cube> {
+    if clock.tick() {
+        return Vec::new();
+    }
     if cover.is_empty() {
         return Vec::new();
     }
@@ -42,7 +54,7 @@ fn primes_rec(cover: Vec<Cube>) -> Vec<Cube> {
     let v = match binate_var(&cover) {
         None => {
             let mut c = cover;
-            scc(&mut c);
+            scc_within(&mut c, clock);
             return c;
         }
         Some(v) => v,
@@ -51,30 +63,42 @@ fn primes_rec(cover: Vec<Cube>) -> Vec<Cube> {
     drop(cover);
     let mut lo = lo;
     let mut hi = hi;
-    scc(&mut lo);
-    scc(&mut hi);
-    let p0 = primes_rec(lo);
-    let p1 = primes_rec(hi);
+    scc_within(&mut lo, clock);
+    scc_within(&mut hi, clock);
+    let p0 = primes_rec(lo, clock);
+    let p1 = primes_rec(hi, clock);
+    if clock.expired() {
+        return Vec::new();
+    }
     let mut out = Vec::with_capacity(p0.len() + p1.len());
     for p in &p0 {
+        if clock.tick() {
+            return Vec::new();
+        }
         if !p1.iter().any(|q| q.contains(p)) {
             out.push(p.with_literal(v, Some(false)));
         }
     }
     for q in &p1 {
+        if clock.tick() {
+            return Vec::new();
+        }
         if !p0.iter().any(|p| p.contains(q)) {
             out.push(q.with_literal(v, Some(true)));
         }
     }
     let mut mid = Vec::new();
     for p in &p0 {
+        if clock.tick() {
+            return Vec::new();
+        }
         for q in &p1 {
             if let Some(z) = p.intersection(q) {
                 mid.push(z);
             }
         }
     }
-    scc(&mut mid);
+    scc_within(&mut mid, clock);
     out.extend(mid);
     out
 }

@@ -5,6 +5,7 @@
 //! arrangement of the column cubes, not by `2^n`.
 
 use crate::algebra::most_frequent;
+use crate::budget::Clock;
 use crate::cube::Cube;
 
 /// For each point `x` of `targets` inside `region`, the set of `columns` (indices into
@@ -15,6 +16,17 @@ pub fn point_rows(
     cols: &[Cube],
     candidates: &[usize],
 ) -> Vec<Vec<usize>> {
+    point_rows_within(region, targets, cols, candidates, &Clock::unbounded()).unwrap_or_default()
+}
+
+/// [`point_rows`] under a deadline: `None` when it passed first.
+pub(crate) fn point_rows_within(
+    region: Cube,
+    targets: &[Cube],
+    cols: &[Cube],
+    candidates: &[usize],
+    clock: &Clock,
+) -> Option<Vec<Vec<usize>>> {
     let mut out = Vec::new();
     let t: Vec<Cube> = targets
         .iter()
@@ -25,10 +37,13 @@ pub fn point_rows(
         .copied()
         .filter(|&i| cols[i].intersects(&region))
         .collect();
-    rec(region, t, cols, c, &mut out);
+    rec(region, t, cols, c, &mut out, clock);
+    if clock.expired() {
+        return None;
+    }
     out.sort();
     out.dedup();
-    out
+    Some(out)
 }
 
 fn rec(
@@ -37,8 +52,9 @@ fn rec(
     cols: &[Cube],
     cand: Vec<usize>,
     out: &mut Vec<Vec<usize>>,
+    clock: &Clock,
 ) {
-    if targets.is_empty() {
+    if targets.is_empty() || clock.tick() {
         return;
     }
     // Variables free in the region on which some meeting column has a literal.
@@ -69,7 +85,7 @@ fn rec(
             .copied()
             .filter(|&i| cols[i].intersects(&r))
             .collect();
-        rec(r, t, cols, c, out);
+        rec(r, t, cols, c, out, clock);
     }
 }
 

@@ -11,7 +11,7 @@
 //!   1-end `P`: every product meeting `T` holds `P`, and for every on-set point `C` of
 //!   `T` one product holds the cube `[P, C]` (Nowick & Dill's cover conditions).
 
-use crate::algebra::{covers_cube, intersect, meets, split};
+use crate::algebra::{covers_cube, intersect, split};
 use crate::cube::Cube;
 use crate::function::{Function, MultiFunction, Transition};
 use crate::ternary::transition_is_clean;
@@ -48,8 +48,9 @@ pub fn check(f: &MultiFunction, sol: &Solution, mode: HazardMode) -> Result<(), 
             continue;
         };
         let cubes = &oc.cubes;
+        let products: std::collections::BTreeSet<&Cube> = sol.products.iter().collect();
         for c in cubes {
-            if !sol.products.contains(c) {
+            if !products.contains(c) {
                 say(
                     None,
                     format!(
@@ -59,21 +60,26 @@ pub fn check(f: &MultiFunction, sol: &Solution, mode: HazardMode) -> Result<(), 
                 );
             }
         }
-        let covered = |m: u64| cubes.iter().any(|c| c.contains_minterm(n, m));
-        if n <= POINT_LIMIT {
+        let table = (n <= POINT_LIMIT).then(|| Points::new(func, cubes, n));
+        if let Some(t) = &table {
             for m in 0..(1u64 << n) {
-                match func.value(m) {
-                    Some(true) if !covered(m) => {
-                        say(None, format!("on-set point {m} is not covered"))
-                    }
-                    Some(false) if covered(m) => say(None, format!("off-set point {m} is covered")),
+                let covered = t.free[m as usize] != NONE;
+                match t.value(m) {
+                    Some(true) if !covered => say(None, format!("on-set point {m} is not covered")),
+                    Some(false) if covered => say(None, format!("off-set point {m} is covered")),
                     _ => {}
                 }
             }
         } else {
-            let off = func.off_cubes();
+            // No off-set point in a product: the product lies inside on ∪ dc.
+            let ondc: Vec<Cube> = func
+                .on_cubes()
+                .iter()
+                .chain(func.dc_cubes())
+                .copied()
+                .collect();
             for c in cubes {
-                if meets(&off, c) {
+                if !covers_cube(&ondc, c) {
                     say(
                         None,
                         format!("product {} holds an off-set point", c.to_string(n)),
@@ -91,7 +97,7 @@ pub fn check(f: &MultiFunction, sol: &Solution, mode: HazardMode) -> Result<(), 
         }
         match mode {
             HazardMode::None => {}
-            HazardMode::Static => static_pairs(func, cubes, n, &mut say),
+            HazardMode::Static => static_pairs(func, cubes, n, table.as_ref(), &mut say),
             HazardMode::Full => {
                 for t in func.transitions() {
                     transition(func, cubes, n, t, &mut say);
@@ -106,24 +112,76 @@ pub fn check(f: &MultiFunction, sol: &Solution, mode: HazardMode) -> Result<(), 
     }
 }
 
+/// Every point's value and, per point, which variables some product holding it leaves
+/// free (as minterm bits; [`NONE`] when no product holds it), painted cube by cube.
+struct Points {
+    /// 0 off, 1 on, 2 don't care.
+    value: Vec<u8>,
+    free: Vec<u64>,
+}
+
+/// The `free` entry of a point that no product holds.
+const NONE: u64 = u64::MAX;
+
+impl Points {
+    fn new(func: &Function, cubes: &[Cube], n: usize) -> Points {
+        let size = 1usize << n;
+        let mut value = vec![0u8; size];
+        for c in func.dc_cubes() {
+            for m in c.minterms(n) {
+                value[m as usize] = 2;
+            }
+        }
+        for c in func.on_cubes() {
+            for m in c.minterms(n) {
+                value[m as usize] = 1;
+            }
+        }
+        let mut free = vec![NONE; size];
+        for c in cubes {
+            let mut f = 0u64;
+            for i in 0..n {
+                if c.literal(i).is_none() {
+                    f |= 1 << (n - 1 - i);
+                }
+            }
+            for m in c.minterms(n) {
+                let e = &mut free[m as usize];
+                *e = if *e == NONE { f } else { *e | f };
+            }
+        }
+        Points { value, free }
+    }
+
+    fn value(&self, m: u64) -> Option<bool> {
+        match self.value[m as usize] {
+            0 => Some(false),
+            1 => Some(true),
+            _ => None,
+        }
+    }
+}
+
 fn static_pairs(
     func: &Function,
     cubes: &[Cube],
     n: usize,
+    table: Option<&Points>,
     say: &mut impl FnMut(Option<Transition>, String),
 ) {
-    if n <= POINT_LIMIT {
+    if let Some(t) = table {
         for m in 0..(1u64 << n) {
-            if func.value(m) != Some(true) {
+            if t.value(m) != Some(true) {
                 continue;
             }
             for bit in 0..n {
                 let m2 = m ^ (1u64 << bit);
-                if m2 < m || func.value(m2) != Some(true) {
+                if m2 < m || t.value(m2) != Some(true) {
                     continue;
                 }
-                let pair = Cube::minterm(n, m).supercube(&Cube::minterm(n, m2));
-                if !cubes.iter().any(|c| c.contains(&pair)) {
+                // One product holds both points iff one holds `m` with this variable free.
+                let f = t.free[m as usize];
+                if f == NONE || f >> bit & 1 == 0 {
                     say(
                         Some(Transition { start: m, end: m2 }),
                         format!("on-set points {m} and {m2} are in no common product"),
