@@ -96,6 +96,23 @@ pub fn run_minimize(args: &MinimizeArgs) -> CliResult {
 
 fn refuse(args: &MinimizeArgs, f: &MultiFunction, mode: HazardMode, e: &CoverError) -> CliResult {
     let n = f.vars.len();
+    if let CoverError::BudgetExhausted { output, .. } = e {
+        // cli.md: a budget that ran out before any valid answer is exit 1, not malformed
+        // input.
+        if args.common.json {
+            print_json(&json!({
+                "vars": f.vars,
+                "hazards": mode.name(),
+                "error": "budget_exhausted",
+                "message": e.to_string(),
+                "output": output,
+                "hazard_free": false,
+            }));
+        } else {
+            eprintln!("{}: {e}", args.function);
+        }
+        return Ok(1);
+    }
     let (output, transition) = match e {
         CoverError::FunctionHazard {
             output, transition, ..
