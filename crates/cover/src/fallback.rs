@@ -150,7 +150,8 @@ fn finish(outs: Vec<OutputCover>, lb: usize, stats: Stats) -> Solution {
     sol
 }
 
-fn exhausted(name: &str) -> CoverError {
+/// The error when not even a fallback cover of output `name` could be built in time.
+pub(crate) fn exhausted(name: &str) -> CoverError {
     CoverError::BudgetExhausted {
         output: name.to_string(),
         reason: "the budget ran out before a valid cover could be built; give a larger --budget"

@@ -25,12 +25,7 @@ pub(crate) fn solve(
     for s in specs {
         match cover_one(s, clock, grace) {
             Some(c) => covers.push(c),
-            None => return Err(CoverError::BudgetExhausted {
-                output: s.name.clone(),
-                reason:
-                    "the budget ran out before a valid cover could be built; give a larger --budget"
-                        .into(),
-            }),
+            None => return Err(crate::fallback::exhausted(&s.name)),
         }
     }
     if cfg.sharing() && specs.len() > 1 && !clock.now() {
