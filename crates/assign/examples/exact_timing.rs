@@ -32,12 +32,16 @@ fn main() {
             proven += usize::from(a.optimal == Some(true));
             times.push(dt);
             println!(
-                "{rows}x{} seed {seed}: width {} lower bound {} optimal {:?} {:.3} s",
+                "{rows}x{} seed {seed}: width {} lower bound {} optimal {:?} {:.3} s, \
+                 sat work {} bytes, nodes {}, clock stopped {}",
                 1 << inputs,
                 a.codes.width(),
                 a.lower_bound,
                 a.optimal,
-                dt
+                dt,
+                a.stats.sat_work,
+                a.stats.nodes,
+                a.stats.clock_stopped
             );
         }
         times.sort_by(f64::total_cmp);

@@ -5,23 +5,34 @@
 //! technique; this encoding works on the dichotomies (common practice, no source):
 //!
 //! - `b[s][i]`: bit `i` of state `s`'s code;
-//! - `x[j][i][o]`: variable `i` covers dichotomy `j = (P; Q)` with orientation `o`, i.e.
-//!   `x[j][i][o] -> b[p][i] = o` for `p` in `P` and `x[j][i][o] -> b[q][i] = !o` for `q`
-//!   in `Q`;
-//! - one clause `OR_{i,o} x[j][i][o]` per dichotomy (the distinctness dichotomies
+//! - `e[s][t][i] <-> (b[s][i] == b[t][i])`, one shared auxiliary per two states that
+//!   some dichotomy needs on one side (equal) or across (different);
+//! - `x[j][i]`: variable `i` covers dichotomy `j = (P; Q)` in either orientation, i.e.
+//!   `x[j][i] -> e[p0][p][i]` for `p` in `P`, `x[j][i] -> e[q0][q][i]` for `q` in `Q`,
+//!   and `x[j][i] -> !e[p0][q0][i]` (`p0`, `q0` the lowest states of the sides; a
+//!   dichotomy of two single states uses `!e[p0][q0][i]` itself);
+//! - one clause `OR_i x[j][i]` per dichotomy (the distinctness dichotomies
 //!   `({s}; {t})` of [`required`](crate::dichotomy::required) are dichotomies too).
 //!
-//! **Symmetry breaking** (both steps keep at least one solution of every satisfiable
+//! **Symmetry breaking** (every step keeps at least one solution of every satisfiable
 //! instance, so an UNSAT answer is a proof for the unrestricted problem):
-//! 1. Complementing one variable in every code keeps every dichotomy covered (the
-//!    orientation flips), so for any solution the variables on which a chosen state `r`
-//!    is 1 may be complemented: `b[r][i] = 0` for all `i`. Then a dichotomy holding `r`
-//!    has a single possible orientation per variable, and only that `x` is created.
-//! 2. The members `c_0, ..., c_{m-1}` of a clique of pairwise incompatible dichotomies
-//!    (in every orientation) are covered by `m` different variables in any solution (two
-//!    of them can never share one), so after permuting the variables, which keeps the
-//!    code valid and step 1's `b[r][*] = 0`, `c_t` is covered by variable `t`: its clause
-//!    becomes `x[c_t][t][0] OR x[c_t][t][1]`.
+//! 1. Complementing one variable in every code keeps every dichotomy covered, so for any
+//!    solution the variables on which a chosen state `r` (the one in the most
+//!    dichotomies) is 1 may be complemented: `b[r][i] = 0` for all `i`.
+//! 2. Variables are interchangeable, which one of two encodings ([`Sym`]) breaks:
+//!    - [`Sym::Clique`]: the members `c_0, ..., c_{m-1}` of a clique of pairwise
+//!      incompatible dichotomies (in every orientation) are covered by `m` different
+//!      variables in any solution (two of them can never share one), so after permuting
+//!      the variables, which keeps step 1, `c_t` is covered by variable `t`: its clause
+//!      becomes `x[c_t][t]`. Only `m` of the `k` variables are pinned, but the solver
+//!      finds codes fast.
+//!    - [`Sym::Lex`]: the bit columns (rows: the other states, busiest first) are in
+//!      strictly decreasing lexicographic order, which breaks every permutation (sorting
+//!      the columns of a solution keeps it one; two equal columns can be made different
+//!      when `2^(n-1) >= k`). It refutes a width much faster (24-state tables: seconds
+//!      instead of minutes) but finds codes more slowly.
+//!
+//! [`decide_alternating`] runs the two encodings in turn with doubling allowances.
 //!
 //! **Budget**: the solver has no interrupt and no conflict limit; its proof output (binary
 //! DRAT, mostly one record per learned or deleted clause) is written into a sink that
@@ -157,7 +168,26 @@ fn pivot(n: usize, ds: &[Dichotomy]) -> usize {
         .unwrap_or(0)
 }
 
-fn encode(n: usize, ds: &[Dichotomy], clique: &[usize], k: usize, work: &Work) -> Encoding {
+/// Which symmetry breaking an encoding uses. Both fix the pivot state's code to 0 and
+/// keep a solution of every satisfiable instance, so either one's UNSAT is a proof.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Sym {
+    /// The clique members on fixed variables (step 2 of the module doc): finds codes fast.
+    Clique,
+    /// The bit columns in strictly decreasing lexicographic order (rows: the busiest
+    /// states first): breaks every permutation of the variables, refutes faster, but
+    /// slows the search for a code.
+    Lex,
+}
+
+fn encode(
+    n: usize,
+    ds: &[Dichotomy],
+    clique: &[usize],
+    k: usize,
+    work: &Work,
+    sym: Sym,
+) -> Encoding {
     let mut solver = Solver::new();
     let written = Rc::new(Cell::new(0));
     let clock = Rc::new(Cell::new(false));
@@ -174,51 +204,137 @@ fn encode(n: usize, ds: &[Dichotomy], clique: &[usize], k: usize, work: &Work) -
         .map(|_| (0..k).map(|_| solver.new_lit()).collect())
         .collect();
     let r = pivot(n, ds);
-    let rbit = 1u128 << r;
     for &l in &bits[r] {
         solver.add_clause(&[!l]);
     }
     let mut fixed_at = vec![usize::MAX; ds.len()];
-    for (t, &c) in clique.iter().enumerate().take(k) {
-        fixed_at[c] = t;
+    if sym == Sym::Clique {
+        for (t, &c) in clique.iter().enumerate().take(k) {
+            fixed_at[c] = t;
+        }
     }
-    let mut any: Vec<Lit> = Vec::with_capacity(2 * k);
+    // e[s][t][i] <-> (b[s][i] == b[t][i]), created on first use, shared by every
+    // dichotomy that needs the two states equal (same side) or different (across).
+    let mut agree_at: Vec<u32> = vec![u32::MAX; n * n];
+    let mut agree: Vec<Vec<Lit>> = Vec::new();
+    let mut agree_of =
+        |solver: &mut Solver<'static>, agree: &mut Vec<Vec<Lit>>, s: usize, t: usize| {
+            let (s, t) = (s.min(t), s.max(t));
+            if agree_at[s * n + t] == u32::MAX {
+                let e: Vec<Lit> = (0..k)
+                    .map(|i| {
+                        let e = solver.new_lit();
+                        let (a, b) = (bits[s][i], bits[t][i]);
+                        solver.add_clause(&[!e, !a, b]);
+                        solver.add_clause(&[!e, a, !b]);
+                        solver.add_clause(&[e, a, b]);
+                        solver.add_clause(&[e, !a, !b]);
+                        e
+                    })
+                    .collect();
+                agree_at[s * n + t] = agree.len() as u32;
+                agree.push(e);
+            }
+            agree_at[s * n + t] as usize
+        };
+    let mut any: Vec<Lit> = Vec::with_capacity(k);
+    let mut same: Vec<usize> = Vec::new();
     for (j, d) in ds.iter().enumerate() {
         any.clear();
-        // Orientation o: left gets o, right gets !o. With b[r] = 0, r's side must be 0.
-        let orients: &[bool] = if d.left & rbit != 0 {
-            &[false]
-        } else if d.right & rbit != 0 {
-            &[true]
-        } else {
-            &[false, true]
+        same.clear();
+        let (Some(p0), Some(q0)) = (ones(d.left).next(), ones(d.right).next()) else {
+            continue;
         };
+        for p in ones(d.left).skip(1) {
+            same.push(agree_of(&mut solver, &mut agree, p0, p));
+        }
+        for q in ones(d.right).skip(1) {
+            same.push(agree_of(&mut solver, &mut agree, q0, q));
+        }
+        let across = agree_of(&mut solver, &mut agree, p0, q0);
         let vars = if fixed_at[j] != usize::MAX {
             fixed_at[j]..fixed_at[j] + 1
         } else {
             0..k
         };
         for i in vars {
-            for &o in orients {
-                let x = solver.new_lit();
-                for p in ones(d.left) {
-                    let l = bits[p][i];
-                    solver.add_clause(&[!x, if o { l } else { !l }]);
-                }
-                for q in ones(d.right) {
-                    let l = bits[q][i];
-                    solver.add_clause(&[!x, if o { !l } else { l }]);
-                }
-                any.push(x);
+            let apart = !agree[across][i];
+            if same.is_empty() {
+                any.push(apart);
+                continue;
             }
+            // x[j][i]: variable i covers dichotomy j (in either orientation).
+            let x = solver.new_lit();
+            solver.add_clause(&[!x, apart]);
+            for &e in &same {
+                solver.add_clause(&[!x, agree[e][i]]);
+            }
+            any.push(x);
         }
         solver.add_clause(&any);
+    }
+    if sym == Sym::Lex {
+        lex_order(&mut solver, &bits, ds, r);
     }
     Encoding {
         solver,
         bits,
         written,
         clock,
+    }
+}
+
+/// Column `i` lexicographically greater than column `i + 1`, rows in the order of
+/// [`pivot`]'s counts (the pivot, constant 0, left out). Sound: a solution with the
+/// pivot at 0 keeps covering every dichotomy after its columns are sorted, and two equal
+/// columns can be made different (a replaced duplicate covers nothing the other does
+/// not) as long as there are enough distinct columns, `2^(n-1) >= k`; otherwise the
+/// order is not strict.
+fn lex_order(solver: &mut Solver<'static>, bits: &[Vec<Lit>], ds: &[Dichotomy], r: usize) {
+    let n = bits.len();
+    let k = bits.first().map_or(0, Vec::len);
+    if k < 2 {
+        return;
+    }
+    let mut count = vec![0usize; n];
+    for d in ds {
+        for s in ones(d.left | d.right) {
+            count[s] += 1;
+        }
+    }
+    let mut rows: Vec<usize> = (0..n).filter(|&s| s != r).collect();
+    rows.sort_by_key(|&s| (std::cmp::Reverse(count[s]), s));
+    let strict = n > 64 || (1u64 << (n - 1)) >= k as u64;
+    for i in 0..k - 1 {
+        // eq: the rows before the current one are equal in both columns.
+        let mut eq: Option<Lit> = None;
+        for &s in &rows {
+            let (a, b) = (bits[s][i], bits[s][i + 1]);
+            match eq {
+                None => solver.add_clause(&[a, !b]),
+                Some(q) => solver.add_clause(&[!q, a, !b]),
+            }
+            let next = solver.new_lit();
+            solver.add_clause(&[!next, !a, b]);
+            solver.add_clause(&[!next, a, !b]);
+            match eq {
+                None => {
+                    solver.add_clause(&[next, !a, !b]);
+                    solver.add_clause(&[next, a, b]);
+                }
+                Some(q) => {
+                    solver.add_clause(&[!next, q]);
+                    solver.add_clause(&[next, !q, !a, !b]);
+                    solver.add_clause(&[next, !q, a, b]);
+                }
+            }
+            eq = Some(next);
+        }
+        if strict {
+            if let Some(q) = eq {
+                solver.add_clause(&[!q]);
+            }
+        }
     }
 }
 
@@ -262,6 +378,7 @@ pub(crate) fn decide(
     k: usize,
     work: &mut Work,
     want: usize,
+    sym: Sym,
 ) -> Answer {
     if clique.len() > k || (k < 64 && n > 1usize << k) {
         return Answer::Infeasible;
@@ -287,7 +404,7 @@ pub(crate) fn decide(
                 Answer::Found(found)
             };
         }
-        let mut e = encode(n, ds, clique, k, work);
+        let mut e = encode(n, ds, clique, k, work, sym);
         for code in &blocked {
             let block: Vec<Lit> = e
                 .bits
@@ -353,10 +470,87 @@ pub(crate) fn decide(
     }
 }
 
+/// The first allowance of [`decide_alternating`], in proof bytes.
+pub(crate) const FIRST_ALLOWANCE: u64 = 100_000;
+
+/// [`decide`] with both encodings in turn ([`Sym::Clique`] first, then [`Sym::Lex`]),
+/// each run from scratch with an allowance doubling per round from [`FIRST_ALLOWANCE`],
+/// until one decides the width or `work` is spent. The clique encoding tends to find
+/// codes, the lexicographic one to refute; the alternation costs at most about four
+/// times the better one's work, and, like every solve, stops on counted work only.
+pub(crate) fn decide_alternating(
+    n: usize,
+    ds: &[Dichotomy],
+    clique: &[usize],
+    k: usize,
+    work: &mut Work,
+    want: usize,
+) -> Answer {
+    let mut allowance = FIRST_ALLOWANCE;
+    loop {
+        for sym in [Sym::Clique, Sym::Lex] {
+            if work.spent() {
+                return Answer::Stopped;
+            }
+            let whole = allowance >= work.left;
+            let mut part = work.part(allowance);
+            let a = decide(n, ds, clique, k, &mut part, want, sym);
+            work.absorb(&part);
+            if a != Answer::Stopped {
+                return a;
+            }
+            if whole {
+                // The sink refuses a whole buffer of proof beyond the limit, so a stop
+                // can leave a remainder too small for any solve: all is spent.
+                work.left = 0;
+                return a;
+            }
+        }
+        allowance = allowance.saturating_mul(2);
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use crate::dichotomy::required_for;
+
+    #[test]
+    #[ignore]
+    fn probe() {
+        // Manual measurement: SP_PROBE="rows inputs seed k mode bytes".
+        let v: Vec<u64> = std::env::var("SP_PROBE")
+            .unwrap()
+            .split_whitespace()
+            .map(|x| x.parse().unwrap())
+            .collect();
+        let t = stillpoint_table::testing::random_normal_table(v[2], v[0] as usize, v[1] as usize);
+        let p = crate::problem::Problem::from_table(&t).unwrap();
+        let ds = required_for(&p).unwrap();
+        let clique = crate::tracey::incompatible_clique(&ds, ds.len().min(512));
+        let sym = [Sym::Clique, Sym::Lex][v[4] as usize];
+        let t0 = Instant::now();
+        let mut w = Work::new(v[5], None);
+        let a = decide(p.num_states, &ds, &clique, v[3] as usize, &mut w, 1, sym);
+        println!(
+            "PROBE {:?} k {} {:?}: {} dichotomies, clique {}, used {}, {:.3} s",
+            v,
+            v[3],
+            sym,
+            ds.len(),
+            clique.len(),
+            w.used,
+            t0.elapsed().as_secs_f64()
+        );
+        println!(
+            "PROBE answer {}",
+            match a {
+                Answer::Found(_) => "found",
+                Answer::Infeasible => "infeasible",
+                Answer::Stopped => "stopped",
+            }
+        );
+    }
 
     #[test]
     fn tracey1_width_three() {
@@ -366,19 +560,61 @@ mod tests {
         let ds = required_for(&p).unwrap();
         let clique = crate::tracey::incompatible_clique(&ds, 8);
         assert_eq!(
-            decide(5, &ds, &clique, 2, &mut Work::unlimited(), 1),
+            decide(5, &ds, &clique, 2, &mut Work::unlimited(), 1, Sym::Clique),
             Answer::Infeasible
         );
         assert_eq!(
-            decide(5, &ds, &[], 2, &mut Work::unlimited(), 1),
+            decide(5, &ds, &[], 2, &mut Work::unlimited(), 1, Sym::Clique),
             Answer::Infeasible
         );
-        let Answer::Found(f) = decide(5, &ds, &clique, 3, &mut Work::unlimited(), 4) else {
+        let Answer::Found(f) = decide(5, &ds, &clique, 3, &mut Work::unlimited(), 4, Sym::Clique)
+        else {
             panic!("3 variables suffice")
         };
         assert_eq!(f.len(), 1, "the optimum is unique");
         for d in &ds {
             assert!(f[0].iter().any(|c| c.covers(*d)));
+        }
+        // The lexicographic encoding gives the same answers.
+        assert_eq!(
+            decide(5, &ds, &[], 2, &mut Work::unlimited(), 1, Sym::Lex),
+            Answer::Infeasible
+        );
+        let Answer::Found(g) = decide(5, &ds, &[], 3, &mut Work::unlimited(), 4, Sym::Lex) else {
+            panic!("3 variables suffice")
+        };
+        assert_eq!(g.len(), 1, "the optimum is unique");
+        for d in &ds {
+            assert!(g[0].iter().any(|c| c.covers(*d)));
+        }
+    }
+
+    #[test]
+    fn every_encoding_matches_branch_and_bound() {
+        // Each symmetry breaking alone must keep the minimum width: feasible at the
+        // branch and bound's proven width, infeasible one below; every code covers
+        // every dichotomy.
+        for seed in 0..30u64 {
+            let rows = 5 + (seed % 8) as usize; // 5..=12
+            let t = stillpoint_table::testing::random_normal_table(seed + 900, rows, 3);
+            let p = crate::problem::Problem::from_table(&t).unwrap();
+            let ds = required_for(&p).unwrap();
+            let bb = crate::tracey::exact_bb(&p, &ds, crate::tracey::Limits::unlimited(), 1);
+            assert!(bb.optimal, "seed {seed}");
+            let w = bb.classes[0].len().max(1);
+            let clique = crate::tracey::incompatible_clique(&ds, 8);
+            for sym in [Sym::Clique, Sym::Lex] {
+                let n = p.num_states;
+                let below = decide(n, &ds, &clique, w - 1, &mut Work::unlimited(), 1, sym);
+                assert_eq!(below, Answer::Infeasible, "seed {seed} {sym:?}");
+                let Answer::Found(f) = decide(n, &ds, &clique, w, &mut Work::unlimited(), 2, sym)
+                else {
+                    panic!("seed {seed} {sym:?}: width {w} is feasible")
+                };
+                for cls in &f {
+                    assert!(ds.iter().all(|d| cls.iter().any(|c| c.covers(*d))));
+                }
+            }
         }
     }
 
@@ -388,7 +624,15 @@ mod tests {
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
         let later = Instant::now() + std::time::Duration::from_secs(30);
-        let a = decide(5, &ds, &[], 4, &mut Work::new(1 << 30, Some(later)), 4);
+        let a = decide(
+            5,
+            &ds,
+            &[],
+            4,
+            &mut Work::new(1 << 30, Some(later)),
+            4,
+            Sym::Clique,
+        );
         let Answer::Found(f) = a else {
             panic!("4 variables suffice")
         };
@@ -402,7 +646,15 @@ mod tests {
         // A tiny instance may finish before the proof buffer is written, so accept both;
         // what must not happen is a wrong infeasibility.
         let past = Instant::now();
-        let a = decide(5, &ds, &[], 3, &mut Work::new(u64::MAX - 1, Some(past)), 1);
+        let a = decide(
+            5,
+            &ds,
+            &[],
+            3,
+            &mut Work::new(u64::MAX - 1, Some(past)),
+            1,
+            Sym::Clique,
+        );
         assert!(matches!(a, Answer::Found(_) | Answer::Stopped));
     }
 
@@ -413,7 +665,10 @@ mod tests {
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
         let mut w = Work::new(0, None);
-        assert_eq!(decide(5, &ds, &[], 3, &mut w, 1), Answer::Stopped);
+        assert_eq!(
+            decide(5, &ds, &[], 3, &mut w, 1, Sym::Clique),
+            Answer::Stopped
+        );
         assert!(!w.clock_fired);
         let t = stillpoint_table::testing::random_normal_table(3, 16, 4);
         let p = crate::problem::Problem::from_table(&t).unwrap();
@@ -421,7 +676,7 @@ mod tests {
         let runs: Vec<(Answer, u64)> = (0..2)
             .map(|_| {
                 let mut w = Work::new(20_000, None);
-                let a = decide(16, &ds, &[], 5, &mut w, 1);
+                let a = decide(16, &ds, &[], 5, &mut w, 1, Sym::Clique);
                 (a, w.used)
             })
             .collect();

@@ -497,7 +497,7 @@ pub(crate) fn exact_sat(
     lower_bound: usize,
     nodes: u64,
 ) -> ExactResult {
-    use crate::sat::{decide, Answer};
+    use crate::sat::{decide_alternating as decide, Answer};
     let clique = incompatible_clique(ds, ds.len().min(512));
     let n = p.num_states;
     let mut lb = lower_bound.max(log2_bound(n)).max(clique.len());
