@@ -1,6 +1,8 @@
 //! Valid covers without search, for when the budget runs out before a search could give
 //! one, with a cheap proven lower bound.
 //!
+//! - Up to 20 variables (a point table): the point-table heuristic's cover
+//!   (`dense.rs`), expanded as far as the grace period allows, with its bound.
 //! - Plain mode: the on-set cubes as given (containment-free).
 //! - Static mode: the on-set cubes plus, for every variable `v`, the cubes of adjacent
 //!   on-on pairs along `v` (`on|v=0 ∩ on|v=1` with `v` free): each lies in the on-set and
@@ -91,11 +93,24 @@ pub(crate) fn solution(
     let mut outs = Vec::with_capacity(specs.len());
     let mut lb = 0;
     for s in specs {
-        let Some(mut cubes) = start_cover(s, clock) else {
-            return Err(exhausted(&s.name));
+        // With a point table the heuristic is cheap: its cover (expanded as far as the
+        // grace period allows) replaces the on-set cubes.
+        let dense = s
+            .table
+            .as_ref()
+            .and_then(|t| crate::dense::cover(s, t, clock).map(|c| (c, t)));
+        let (mut cubes, table) = match dense {
+            Some((c, t)) => (c, Some(t)),
+            None => match start_cover(s, clock) {
+                Some(c) => (c, None),
+                None => return Err(exhausted(&s.name)),
+            },
         };
         cubes.sort();
-        let bound = point_bound(&cubes, &s.on, &s.dc, s.nvars, clock);
+        let bound = match table {
+            Some(t) => crate::dense::lower_bound(t, clock),
+            None => point_bound(&cubes, &s.on, &s.dc, s.nvars, clock),
+        };
         lb = lb.max(bound);
         outs.push(OutputCover {
             name: s.name.clone(),

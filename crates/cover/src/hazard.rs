@@ -12,11 +12,13 @@
 //! stay free: every product meeting the cube must hold its 1-end point, so whatever
 //! value the cover gives them is monotone along the transition.
 
-use crate::algebra::{complement_within, meets, scc, scc_within, sharp_within, witness};
+use crate::algebra::{complement_within, scc, scc_within, sharp_within, witness};
 use crate::budget::Clock;
 use crate::cube::Cube;
 use crate::function::{Function, Transition};
+use crate::points::Table;
 use crate::{CoverError, HazardMode};
+use std::sync::Arc;
 
 /// A privileged cube: any product meeting `cube` must contain `start`.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -57,17 +59,28 @@ pub struct OutputSpec {
     pub privileged: Vec<Privileged>,
     /// Whether every adjacent on-on pair needs one product (static mode).
     pub adjacent_pairs: bool,
+    /// The effective sets as a point table, for up to 20 variables.
+    pub(crate) table: Option<Arc<Table>>,
 }
 
 impl OutputSpec {
     /// Whether `c` may be a product of this output: no off-set point and no illegal
     /// intersection with a privileged cube.
     pub fn legal(&self, c: &Cube) -> bool {
-        !meets(&self.off, c)
+        self.off_witness(c).is_none()
             && self
                 .privileged
                 .iter()
                 .all(|p| !p.cube.intersects(c) || c.contains(&p.start))
+    }
+
+    /// An off-set point of `c` (a full-length cube), if any: from the point table when
+    /// that is cheaper than a scan of the off-set cubes.
+    pub fn off_witness(&self, c: &Cube) -> Option<Cube> {
+        match &self.table {
+            Some(t) if c.size(self.nvars) <= self.off.len().max(64) as u128 => t.off_witness(c),
+            _ => self.off.iter().find_map(|o| witness(o, c, self.nvars)),
+        }
     }
 
     /// The smallest cube containing `c` that intersects no privileged cube illegally.
@@ -107,12 +120,20 @@ pub(crate) fn prepare_within(
     let n = f.nvars();
     let on: Vec<Cube> = f.on_cubes().to_vec();
     let dc: Vec<Cube> = f.dc_cubes().to_vec();
-    let mut all = on.clone();
-    all.extend_from_slice(&dc);
-    let Some(off) = complement_within(&all, n, clock) else {
-        return Ok(None);
+    // Up to 20 variables the sets go into a point table and the off-set is read from
+    // it; wider functions take the complement by unate recursion.
+    let mut table = Table::build(n, &on, &dc);
+    let off = match &table {
+        Some(t) => t.off_cubes(),
+        None => {
+            let mut all = on.clone();
+            all.extend_from_slice(&dc);
+            let Some(off) = complement_within(&all, n, clock) else {
+                return Ok(None);
+            };
+            off
+        }
     };
-    drop(all);
     let mut spec = OutputSpec {
         name: name.to_string(),
         nvars: n,
@@ -122,10 +143,13 @@ pub(crate) fn prepare_within(
         required: Vec::new(),
         privileged: Vec::new(),
         adjacent_pairs: mode == HazardMode::Static,
+        table: None,
     };
     if mode != HazardMode::Full {
+        spec.table = table.map(Arc::new);
         return Ok(Some(spec));
     }
+    spec.table = table.clone().map(Arc::new);
     let hazard = |t: &Transition, reason: String| CoverError::FunctionHazard {
         output: name.to_string(),
         transition: *t,
@@ -138,7 +162,7 @@ pub(crate) fn prepare_within(
         let cube = t.cube(n);
         match (f.value(t.start), f.value(t.end)) {
             (Some(true), Some(true)) => {
-                if let Some(w) = spec.off.iter().find_map(|o| witness(o, &cube, n)) {
+                if let Some(w) = spec.off_witness(&cube) {
                     return Err(hazard(
                         t,
                         format!(
@@ -190,7 +214,20 @@ pub(crate) fn prepare_within(
     spec.on.extend(ones.iter().map(|(c, _)| *c));
     scc_within(&mut spec.on, clock);
     spec.off.extend(zeros.iter().map(|(c, _)| *c));
-    scc_within(&mut spec.off, clock);
+    if table.is_none() {
+        // (With a point table the off-set cubes serve only as a list of its points:
+        // containment among them does not matter.)
+        scc_within(&mut spec.off, clock);
+    }
+    if let Some(t) = &mut table {
+        for (c, _) in &ones {
+            t.paint(c, crate::points::ON);
+        }
+        for (c, _) in &zeros {
+            t.paint(c, crate::points::OFF);
+        }
+    }
+    spec.table = table.map(Arc::new);
     for (c, t) in &ones {
         spec.required.push(Required {
             cube: *c,
@@ -213,7 +250,7 @@ pub(crate) fn prepare_within(
                 continue;
             };
             let r = p.supercube(&part);
-            if let Some(d) = spec.off.iter().find_map(|o| witness(o, &r, n)) {
+            if let Some(d) = spec.off_witness(&r) {
                 // The point of `part` farthest from p.
                 let far = far_point(&p, &part, n);
                 return Err(hazard(
@@ -244,7 +281,7 @@ pub(crate) fn prepare_within(
     // Existence: every required cube inside some dhf-implicant.
     for r in &spec.required {
         let c = spec.closure(&r.cube);
-        if let Some(d) = spec.off.iter().find_map(|o| witness(o, &c, n)) {
+        if let Some(d) = spec.off_witness(&c) {
             let culprit = spec
                 .privileged
                 .iter()

@@ -57,6 +57,11 @@ pub(crate) fn solve(
 /// Heuristic cover of one output; `None` when even the grace period ran out before a
 /// valid cover was built.
 pub(crate) fn cover_one(s: &OutputSpec, clock: &Clock, grace: &Clock) -> Option<Vec<Cube>> {
+    if let Some(t) = &s.table {
+        if let Some(c) = crate::dense::cover(s, t, clock) {
+            return Some(c);
+        }
+    }
     // Start: required cubes (closed under the privileged rule) and the on-set outside
     // every privileged cube (its points inside one are held by required cubes).
     let mut f: Vec<Cube> = s.required.iter().map(|r| s.closure(&r.cube)).collect();
@@ -305,7 +310,28 @@ fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>], clock: &Clock) {
         p.dedup();
         p
     };
+    let set: std::collections::HashSet<Cube> = pool.iter().copied().collect();
     for (k, s) in specs.iter().enumerate() {
+        if let Some(t) = &s.table {
+            // Point-table outputs: a product may grow into a pool product one literal
+            // larger (a scan of the whole pool per product is too slow here).
+            let mut f = covers[k].clone();
+            for d in f.iter_mut() {
+                let mut bits = d.care_bits();
+                while bits != 0 {
+                    let v = bits.trailing_zeros() as usize;
+                    bits &= bits - 1;
+                    let up = d.with_literal(v, None);
+                    if set.contains(&up) && s.legal(&up) {
+                        *d = up;
+                        break;
+                    }
+                }
+            }
+            scc(&mut f);
+            covers[k] = crate::dense::irredundant(s, t, &f, clock);
+            continue;
+        }
         let mut f = covers[k].clone();
         for d in f.iter_mut() {
             if let Some(big) = pool.iter().find(|p| *p != d && p.contains(d) && s.legal(p)) {
@@ -331,6 +357,9 @@ fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>], clock: &Clock) {
 /// A lower bound on the products of one output: a greedy set of points and required
 /// cubes no two of which fit in one legal product.
 pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube], clock: &Clock) -> usize {
+    if let Some(t) = &s.table {
+        return crate::dense::lower_bound(t, clock);
+    }
     let pair_edges = if s.adjacent_pairs {
         edges_within(s, clock)
     } else {

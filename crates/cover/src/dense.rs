@@ -1,0 +1,512 @@
+//! The heuristic on a point table (functions of up to 20 variables): our own greedy
+//! expand / irredundant / reduce loop where every legality test and every coverage
+//! count is a lookup per point of the cube, so dense functions (hundreds of thousands
+//! of on-set points) are covered in time linear in the space.
+//!
+//! - Seeds: the closures of the required cubes, then every on-set point not yet held,
+//!   hardest first (fewest neighbours outside the off-set).
+//! - Expand: raise one literal at a time, choosing the variable whose new half holds
+//!   most on-set points not yet held (then most on-set points), while the cube stays a
+//!   legal product (no off-set point, no illegal intersection with a privileged cube;
+//!   when raising a literal meets a privileged cube illegally, its closure is tried).
+//! - Static mode: every adjacent on-on pair held by no product gets a product grown
+//!   from the pair.
+//! - Irredundant: a product goes when every on-set point, required cube and (static
+//!   mode) adjacent pair it holds is held by another; smallest products first.
+//! - Reduce: each product shrinks to the supercube of what only it holds (then its
+//!   closure), is expanded again, and the pass ends with irredundant; repeated while
+//!   the cost falls (at most a few rounds).
+//!
+//! Every intermediate cover is valid, so when the clock runs out the current one is
+//! returned (the points not yet held are added unexpanded).
+//!
+//! The lower bound: a greedy set of on-set points no two of which lie in one
+//! implicant. An implicant holding point `p` lies inside `N(p)`, the cube of `p` with
+//! every variable free whose flip from `p` is not an off-set point; two points can
+//! share an implicant only if each lies in the other's `N` and the supercube of the
+//! two holds no off-set point. Points with `N(p)` of at most [`BOUND_DIM`] free
+//! variables are tried, and a point joins the set when no member is compatible with
+//! it (the members compatible with `p` all lie in `N(p)`, which is enumerated).
+
+use crate::budget::Clock;
+use crate::cube::{mask, Cube};
+use crate::hazard::OutputSpec;
+use crate::points::{each_point, Table, OFF, ON};
+
+/// The largest `N(p)` (free variables) enumerated by the lower bound.
+const BOUND_DIM: u32 = 6;
+
+/// Rounds of reduce / expand / irredundant after the first cover.
+const ROUNDS: usize = 1;
+
+/// The working state: the chosen products and how often each point, adjacent pair and
+/// required cube is held.
+pub(crate) struct Engine<'a> {
+    s: &'a OutputSpec,
+    st: &'a [u8],
+    n: usize,
+    full: u64,
+    /// Chosen products (`None` once removed).
+    cubes: Vec<Option<Cube>>,
+    /// Products holding each point.
+    cnt: Vec<u32>,
+    /// Static mode: products holding the pair `(p, p ^ 1 << v)` at `p * n + v` (for `p`
+    /// with bit `v` clear), saturating at 255 (a saturated count is never trusted to
+    /// allow a removal).
+    pairs: Vec<u8>,
+    /// Products holding each required cube.
+    req: Vec<u32>,
+    /// For each point outside the off-set, the variables whose flip is not an off-set
+    /// point: a literal `v` of a cube can be raised without meeting the off-set exactly
+    /// when `v` is in the mask of every point of the cube.
+    nb: Vec<u32>,
+}
+
+/// The masks [`Engine::nb`] of every point of `st` (zero for off-set points).
+fn neighbour_masks(st: &[u8], n: usize) -> Vec<u32> {
+    let mut nb = vec![0u32; st.len()];
+    for (p, m) in nb.iter_mut().enumerate() {
+        if st[p] == OFF {
+            continue;
+        }
+        let mut f = 0u32;
+        for v in 0..n {
+            if st[p ^ 1 << v] != OFF {
+                f |= 1 << v;
+            }
+        }
+        *m = f;
+    }
+    nb
+}
+
+impl<'a> Engine<'a> {
+    /// An empty cover of `s` over its point table.
+    pub(crate) fn new(s: &'a OutputSpec, t: &'a Table) -> Engine<'a> {
+        let n = t.nvars();
+        let size = 1usize << n;
+        Engine {
+            s,
+            st: t.states(),
+            n,
+            full: mask(n),
+            cubes: Vec::new(),
+            cnt: vec![0; size],
+            pairs: if s.adjacent_pairs {
+                vec![0; size * n]
+            } else {
+                Vec::new()
+            },
+            req: vec![0; s.required.len()],
+            nb: neighbour_masks(t.states(), n),
+        }
+    }
+
+    /// The products chosen, in the order they were added.
+    pub(crate) fn cubes(&self) -> Vec<Cube> {
+        self.cubes.iter().flatten().copied().collect()
+    }
+
+    fn cost(&self) -> (usize, usize) {
+        self.cubes
+            .iter()
+            .flatten()
+            .fold((0, 0), |(a, b), c| (a + 1, b + c.literal_count()))
+    }
+
+    /// Adds product `c` to the counts (not to the list).
+    fn paint(&mut self, c: &Cube, up: bool) {
+        let n = self.n;
+        let free = self.full & !c.care_bits();
+        let (cnt, pairs, st) = (&mut self.cnt, &mut self.pairs, self.st);
+        let pairs_on = !pairs.is_empty();
+        each_point(c, n, |p| {
+            if up {
+                cnt[p] += 1;
+            } else {
+                cnt[p] -= 1;
+            }
+            if pairs_on && st[p] == ON {
+                let mut f = free & !(p as u64);
+                while f != 0 {
+                    let v = f.trailing_zeros() as usize;
+                    f &= f - 1;
+                    if st[p | 1 << v] == ON {
+                        let x = &mut pairs[p * n + v];
+                        if *x != u8::MAX {
+                            *x = if up { *x + 1 } else { *x - 1 };
+                        }
+                    }
+                }
+            }
+            true
+        });
+        for (k, r) in self.s.required.iter().enumerate() {
+            if c.contains(&r.cube) {
+                if up {
+                    self.req[k] += 1;
+                } else {
+                    self.req[k] -= 1;
+                }
+            }
+        }
+    }
+
+    fn add(&mut self, c: Cube) {
+        self.paint(&c, true);
+        self.cubes.push(Some(c));
+    }
+
+    /// Whether `c` meets no privileged cube illegally.
+    fn priv_ok(&self, c: &Cube) -> bool {
+        self.s
+            .privileged
+            .iter()
+            .all(|q| !q.cube.intersects(c) || c.contains(&q.start))
+    }
+
+    /// The weight of point `p` for growing a product over it: `fresh` counts points
+    /// not yet held (first cover), otherwise every on-set point counts.
+    #[inline]
+    fn weight(&self, p: usize) -> u32 {
+        if self.st[p] != ON {
+            0
+        } else if self.cnt[p] == 0 {
+            4
+        } else {
+            1
+        }
+    }
+
+    /// Grows the legal cube `c` to a maximal legal cube, greedily.
+    fn expand(&self, mut c: Cube) -> Cube {
+        loop {
+            let mut best: Option<(u32, Cube)> = None;
+            let mut bits = c.care_bits() & self.full;
+            each_point(&c, self.n, |p| {
+                bits &= self.nb[p] as u64;
+                bits != 0
+            });
+            while bits != 0 {
+                let v = bits.trailing_zeros() as usize;
+                bits &= bits - 1;
+                let up = c.with_literal(v, None);
+                let mut score = 0u32;
+                if self.priv_ok(&up) {
+                    let half = Cube::from_words(c.care_bits(), c.value_bits() ^ (1 << v));
+                    each_point(&half, self.n, |p| {
+                        score += self.weight(p);
+                        true
+                    });
+                    if !matches!(best, Some((b, _)) if b >= score) {
+                        best = Some((score, up));
+                    }
+                } else {
+                    let big = self.s.closure(&up);
+                    let ok = each_point(&big, self.n, |p| {
+                        if !c.contains(&Cube::from_words(self.full, p as u64)) {
+                            score += self.weight(p);
+                        }
+                        self.st[p] != OFF
+                    });
+                    if ok && !matches!(best, Some((b, _)) if b >= score) {
+                        best = Some((score, big));
+                    }
+                }
+            }
+            match best {
+                Some((_, up)) => c = up,
+                None => return c,
+            }
+        }
+    }
+
+    /// Whether product `k` can go: everything it holds is held by another product.
+    fn removable(&self, c: &Cube) -> bool {
+        let n = self.n;
+        let free = self.full & !c.care_bits();
+        let pairs_on = !self.pairs.is_empty();
+        let points_ok = each_point(c, n, |p| {
+            if self.st[p] != ON {
+                return true;
+            }
+            if self.cnt[p] < 2 {
+                return false;
+            }
+            if pairs_on {
+                let mut f = free & !(p as u64);
+                while f != 0 {
+                    let v = f.trailing_zeros() as usize;
+                    f &= f - 1;
+                    if self.st[p | 1 << v] == ON {
+                        let x = self.pairs[p * n + v];
+                        if x < 2 || x == u8::MAX {
+                            return false;
+                        }
+                    }
+                }
+            }
+            true
+        });
+        points_ok
+            && self
+                .s
+                .required
+                .iter()
+                .zip(&self.req)
+                .all(|(r, &k)| k >= 2 || !c.contains(&r.cube))
+    }
+
+    /// Drops redundant products, smallest first.
+    fn irredundant(&mut self, clock: &Clock) {
+        let mut order: Vec<usize> = (0..self.cubes.len())
+            .filter(|&k| self.cubes[k].is_some())
+            .collect();
+        order.sort_unstable_by_key(|&k| {
+            let c = self.cubes[k].unwrap_or_default();
+            (std::cmp::Reverse(c.literal_count()), k)
+        });
+        for k in order {
+            if clock.tick() {
+                return;
+            }
+            let Some(c) = self.cubes[k] else { continue };
+            if self.removable(&c) {
+                self.paint(&c, false);
+                self.cubes[k] = None;
+            }
+        }
+    }
+
+    /// The first cover: required cubes, then every on-set point, then (static mode)
+    /// every open adjacent pair. When `clock` runs out, the rest is added unexpanded.
+    fn first_cover(&mut self, clock: &Clock) -> bool {
+        let s = self.s;
+        for r in &s.required {
+            let c = s.closure(&r.cube);
+            let c = if clock.tick() { c } else { self.expand(c) };
+            self.add(c);
+        }
+        // On-set points, fewest non-off neighbours first.
+        let n = self.n;
+        let mut buckets: Vec<Vec<u32>> = vec![Vec::new(); n + 1];
+        for p in 0..self.st.len() {
+            if self.st[p] == ON && self.cnt[p] == 0 {
+                buckets[self.nb[p].count_ones() as usize].push(p as u32);
+            }
+        }
+        for b in &buckets {
+            for &p in b {
+                let p = p as usize;
+                if self.cnt[p] > 0 {
+                    continue;
+                }
+                let mut c = Cube::from_words(self.full, p as u64);
+                if !self.priv_ok(&c) {
+                    c = s.closure(&c);
+                    if !each_point(&c, n, |q| self.st[q] != OFF) {
+                        // Cannot happen after the existence test; never return an
+                        // invalid cover.
+                        return false;
+                    }
+                }
+                let c = if clock.tick() { c } else { self.expand(c) };
+                self.add(c);
+            }
+        }
+        if s.adjacent_pairs {
+            for p in 0..self.st.len() {
+                if self.st[p] != ON {
+                    continue;
+                }
+                for v in 0..n {
+                    if p >> v & 1 == 1 || self.st[p | 1 << v] != ON || self.pairs[p * n + v] > 0 {
+                        continue;
+                    }
+                    let c = Cube::from_words(self.full & !(1 << v), p as u64);
+                    let c = if clock.tick() { c } else { self.expand(c) };
+                    self.add(c);
+                }
+            }
+        }
+        true
+    }
+
+    /// Shrinks product `k` to the supercube of what only it holds (then its closure);
+    /// drops it when it holds nothing alone.
+    fn reduce_one(&mut self, k: usize) {
+        let Some(c) = self.cubes[k] else { return };
+        let n = self.n;
+        let free = self.full & !c.care_bits();
+        let pairs_on = !self.pairs.is_empty();
+        let mut sc: Option<Cube> = None;
+        let join = |sc: &mut Option<Cube>, x: Cube| {
+            *sc = Some(match *sc {
+                Some(y) => y.supercube(&x),
+                None => x,
+            });
+        };
+        each_point(&c, n, |p| {
+            if self.st[p] != ON {
+                return true;
+            }
+            let pt = Cube::from_words(self.full, p as u64);
+            if self.cnt[p] == 1 {
+                join(&mut sc, pt);
+            }
+            if pairs_on {
+                let mut f = free & !(p as u64);
+                while f != 0 {
+                    let v = f.trailing_zeros() as usize;
+                    f &= f - 1;
+                    if self.st[p | 1 << v] == ON && self.pairs[p * n + v] == 1 {
+                        join(&mut sc, pt.with_literal(v, None));
+                    }
+                }
+            }
+            true
+        });
+        for (r, &h) in self.s.required.iter().zip(&self.req) {
+            if h == 1 && c.contains(&r.cube) {
+                join(&mut sc, r.cube);
+            }
+        }
+        self.paint(&c, false);
+        match sc {
+            None => self.cubes[k] = None,
+            Some(x) => {
+                let x = self.s.closure(&x);
+                self.paint(&x, true);
+                self.cubes[k] = Some(x);
+            }
+        }
+    }
+
+    /// Expands product `k` again (it is taken out while it grows).
+    fn expand_one(&mut self, k: usize) {
+        let Some(c) = self.cubes[k] else { return };
+        self.paint(&c, false);
+        let e = self.expand(c);
+        self.paint(&e, true);
+        self.cubes[k] = Some(e);
+    }
+
+    fn compact(&mut self) {
+        self.cubes.retain(|c| c.is_some());
+    }
+}
+
+/// The heuristic cover of one output over its point table; `None` only if a seed point
+/// has no legal product (which the existence test rules out).
+pub(crate) fn cover(s: &OutputSpec, t: &Table, clock: &Clock) -> Option<Vec<Cube>> {
+    let mut e = Engine::new(s, t);
+    if !e.first_cover(clock) {
+        return None;
+    }
+    e.irredundant(clock);
+    e.compact();
+    let mut best = e.cubes();
+    let mut best_cost = e.cost();
+    for _ in 0..ROUNDS {
+        if clock.now() {
+            break;
+        }
+        let mut order: Vec<usize> = (0..e.cubes.len()).collect();
+        order.sort_unstable_by_key(|&k| {
+            let c = e.cubes[k].unwrap_or_default();
+            (c.literal_count(), k)
+        });
+        for &k in &order {
+            if clock.tick() {
+                break;
+            }
+            e.reduce_one(k);
+        }
+        for &k in order.iter().rev() {
+            if clock.tick() {
+                break;
+            }
+            e.expand_one(k);
+        }
+        e.irredundant(clock);
+        e.compact();
+        let c = e.cost();
+        if c < best_cost {
+            best_cost = c;
+            best = e.cubes();
+        } else {
+            break;
+        }
+    }
+    Some(best)
+}
+
+/// Makes `cover` irredundant for `s` over its point table (used after sharing).
+pub(crate) fn irredundant(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clock) -> Vec<Cube> {
+    let mut e = Engine::new(s, t);
+    for &c in cover {
+        e.add(c);
+    }
+    e.irredundant(clock);
+    e.cubes()
+}
+
+/// The lower bound of the module docs: a greedy set of on-set points pairwise in no
+/// common implicant.
+pub(crate) fn lower_bound(t: &Table, clock: &Clock) -> usize {
+    let n = t.nvars();
+    let st = t.states();
+    let full = mask(n);
+    // N(p) as the mask of its free variables, for the points tried.
+    let mut free_of = vec![u32::MAX; st.len()];
+    let mut order: Vec<Vec<u32>> = vec![Vec::new(); BOUND_DIM as usize + 1];
+    for p in 0..st.len() {
+        if st[p] != ON {
+            continue;
+        }
+        let mut f = 0u32;
+        for v in 0..n {
+            if st[p ^ 1 << v] != OFF {
+                f |= 1 << v;
+            }
+        }
+        if f.count_ones() <= BOUND_DIM {
+            free_of[p] = f;
+            order[f.count_ones() as usize].push(p as u32);
+        }
+    }
+    let mut chosen = vec![false; st.len()];
+    let mut count = 0usize;
+    for bucket in &order {
+        for &p in bucket {
+            if clock.tick() {
+                return count.max(1);
+            }
+            let p = p as usize;
+            let fp = free_of[p] as u64;
+            let np = Cube::from_words(full & !fp, p as u64);
+            let clash = !each_point(&np, n, |q| {
+                if !chosen[q] {
+                    return true;
+                }
+                let fq = free_of[q] as u64;
+                // Compatible: p inside N(q) and the supercube holds no off-set point.
+                let d = (p ^ q) as u64;
+                if d & !fq != 0 {
+                    return true;
+                }
+                let sc = Cube::from_words(full & !d, p as u64);
+                let no_off = each_point(&sc, n, |x| st[x] != OFF);
+                !no_off
+            });
+            if !clash {
+                chosen[p] = true;
+                count += 1;
+            }
+        }
+    }
+    if count == 0 && st.contains(&ON) {
+        return 1;
+    }
+    count
+}
