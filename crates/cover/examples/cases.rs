@@ -128,11 +128,13 @@ fn main() {
                 "skipped".into()
             };
             println!(
-                "{case} seed {seed} budget {budget} s: {ms:.1} ms, cubes {} lits {} lb {} optimal {} primes {} rows {} core {:?} nodes {} verified {ok}",
+                "{case} seed {seed} budget {budget} s: {ms:.1} ms, cubes {} lits {} lb {} optimal {} literals_optimal {} count search {:.1} ms primes {} rows {} core {:?} nodes {} verified {ok}",
                 s.cube_count,
                 s.literal_count,
                 s.lower_bound,
                 s.optimal,
+                s.literals_optimal,
+                s.stats.count_search.as_secs_f64() * 1e3,
                 s.stats.primes,
                 s.stats.rows,
                 s.stats.core,

@@ -46,6 +46,9 @@ pub struct Outcome {
     pub nodes: u64,
     /// Rows and columns left after the root reductions (the cyclic core).
     pub core: (usize, usize),
+    /// Wall time of the first phase (products only) when costs are lexicographic,
+    /// else of the whole search.
+    pub count_time: std::time::Duration,
 }
 
 /// When to stop.
@@ -135,6 +138,9 @@ struct Search<'a> {
     slack: u64,
     /// Whether costs are small enough for exact `i64` Lagrangian arithmetic.
     lagrangian: bool,
+    /// A cover of the whole problem and a lower bound on every cover's cost, for the
+    /// root when it is one block (taken by the first [`Search::exact`] call).
+    seed: Option<((u64, Vec<usize>), u64)>,
 }
 
 /// The column index of a node: its columns, each row's columns and each column's rows
@@ -147,6 +153,9 @@ struct Mat {
 
 /// Fixed-point scale of the literal phase (its costs are small integers).
 const LIT_SCALE: i64 = 1 << 16;
+
+/// The cost of one product in the first phase (products only).
+const COUNT_UNIT: u64 = 1 << 16;
 
 /// Subgradient iterations at the root, in an independent block, and at other nodes.
 const ROOT_ITERS: usize = 1500;
@@ -174,10 +183,6 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
         }
         rows.push(b);
     }
-    let mut mask = vec![0u64; words];
-    for c in 0..p.ncols {
-        set(&mut mask, c);
-    }
     // Costs with a primary part in units of 2^32 (products) and a small secondary part
     // (literals) whose sum over all columns stays below one unit: every cover then costs
     // a whole number of units plus at most `slack`, which lets bounds round up.
@@ -188,9 +193,118 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
     } else {
         (1, 0)
     };
-    let lagrangian = p.cost.iter().all(|&c| c <= 1u64 << 40);
+    let started = Instant::now();
+    if unit == 1 {
+        let r = run(&p.cost, rows, p.ncols, limits, (1, 0), None);
+        return Ok(r.outcome(started.elapsed()));
+    }
+    // Phase 1: the product count alone (every column costs `COUNT_UNIT`, so the
+    // integer Lagrangian multipliers can take fractional values of a product): far
+    // more columns dominate each other and the bounds have no literal part to close.
+    let ones = vec![COUNT_UNIT; p.ncols];
+    let first = run(&ones, rows.clone(), p.ncols, limits, (COUNT_UNIT, 0), None);
+    let lex: u64 = first.cols.iter().map(|&c| p.cost[c]).sum();
+    let count_lb = (first.lb.min(first.cost) / COUNT_UNIT).saturating_mul(unit);
+    let count_time = started.elapsed();
+    if first.stopped {
+        let mut cols = first.cols;
+        cols.sort_unstable();
+        return Ok(Outcome {
+            cols,
+            cost: lex,
+            optimal: false,
+            lower_bound: count_lb.min(lex),
+            nodes: first.nodes,
+            core: first.core,
+            count_time,
+        });
+    }
+    // Phase 2: literals among covers of the minimum count, starting from phase 1's
+    // cover and knowing that no cover has fewer products.
+    let second_limits = Limits {
+        node_limit: limits.node_limit.saturating_sub(first.nodes),
+        ..limits
+    };
+    let second = run(
+        &p.cost,
+        rows,
+        p.ncols,
+        second_limits,
+        (unit, slack),
+        Some(((lex, first.cols.clone()), count_lb)),
+    );
+    let (cost, mut cols) = if second.cost <= lex {
+        (second.cost, second.cols)
+    } else {
+        (lex, first.cols)
+    };
+    cols.sort_unstable();
+    let optimal = !second.stopped;
+    Ok(Outcome {
+        cols,
+        cost,
+        optimal,
+        lower_bound: if optimal {
+            cost
+        } else {
+            second.lb.max(count_lb).min(cost)
+        },
+        nodes: first.nodes + second.nodes,
+        core: first.core,
+        count_time,
+    })
+}
+
+/// One branch-and-bound run.
+struct Run {
+    cols: Vec<usize>,
+    cost: u64,
+    lb: u64,
+    stopped: bool,
+    nodes: u64,
+    core: (usize, usize),
+}
+
+impl Run {
+    fn outcome(self, count_time: std::time::Duration) -> Outcome {
+        let mut cols = self.cols;
+        cols.sort_unstable();
+        let optimal = !self.stopped;
+        Outcome {
+            cols,
+            cost: self.cost,
+            optimal,
+            lower_bound: if optimal {
+                self.cost
+            } else {
+                self.lb.min(self.cost)
+            },
+            nodes: self.nodes,
+            core: self.core,
+            count_time,
+        }
+    }
+}
+
+/// Branch and bound over `rows` with column costs `cost` (`(unit, slack)` as in
+/// [`Search`]); `seed` is a known cover of the whole problem and a lower bound on every
+/// cover's cost, used when the reduced root is one block.
+fn run(
+    cost: &[u64],
+    rows: Vec<Bits>,
+    ncols: usize,
+    limits: Limits,
+    (unit, slack): (u64, u64),
+    seed: Option<((u64, Vec<usize>), u64)>,
+) -> Run {
+    let words = ncols.div_ceil(64).max(1);
+    let mut mask = vec![0u64; words];
+    for c in 0..ncols {
+        set(&mut mask, c);
+    }
+    let lagrangian = cost.iter().all(|&c| c <= 1u64 << 40);
     let mut s = Search {
-        cost: &p.cost,
+        cost,
         words,
         nodes: 0,
         stopped: false,
@@ -199,6 +313,7 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
         unit,
         slack,
         lagrangian,
+        seed,
     };
     let nrows = rows.len();
     let mut root = Node {
@@ -222,21 +337,14 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
         },
     );
     let sub = s.exact(root);
-    let mut cols = sub.cols;
-    cols.sort_unstable();
-    let optimal = !s.stopped;
-    Ok(Outcome {
-        cols,
+    Run {
+        cols: sub.cols,
         cost: sub.cost,
-        optimal,
-        lower_bound: if optimal {
-            sub.cost
-        } else {
-            sub.lb.min(sub.cost)
-        },
+        lb: sub.lb,
+        stopped: s.stopped,
         nodes: s.nodes,
         core,
-    })
+    }
 }
 
 impl Search<'_> {
@@ -257,6 +365,7 @@ impl Search<'_> {
                 lb: n.cost,
             };
         }
+        let seed = self.seed.take();
         let comps = self.components(&n);
         if comps.len() > 1 {
             let mut total = Sub {
@@ -272,8 +381,14 @@ impl Search<'_> {
             }
             return total;
         }
-        let lb = self.round(n.cost + self.mis_bound(&n.rows));
+        let mut lb = self.round(n.cost + self.mis_bound(&n.rows));
         let mut best = self.greedy(&n);
+        if let Some((cover, floor)) = seed {
+            lb = lb.max(floor);
+            if cover.0 < best.0 {
+                best = cover;
+            }
+        }
         let mut bound = lb;
         if !self.stopped && best.0 > lb {
             bound = self.branch(n, &mut best, lb).max(lb);
@@ -911,7 +1026,7 @@ impl Search<'_> {
             // `best` has, a cheaper cover has exactly that many products here, and
             // fewer literals in all; bound its literals with the product count fixed.
             let hb = best.0 / self.unit;
-            if self.unit > 1 && lb >= hb * self.unit {
+            if self.slack > 0 && lb >= hb * self.unit {
                 let k = (hb - n.cost / self.unit) as i64;
                 let lits_best = (best.0 % self.unit) as i64;
                 let lits_here = (n.cost % self.unit) as i64;

@@ -51,6 +51,7 @@ fn solve_inner(
     if !cfg.sharing() || specs.len() == 1 || specs.len() > 64 {
         let mut outs = Vec::with_capacity(specs.len());
         let mut all_opt = true;
+        let mut all_counts = true;
         let mut lb = 0;
         for (j, s) in specs.iter().enumerate() {
             let Some((cands, nprimes)) = group_candidates(specs, &[j], clock) else {
@@ -73,15 +74,13 @@ fn solve_inner(
             };
             let oc = oc.into_iter().next().expect("one output");
             all_opt &= opt;
+            all_counts &= oc.optimal;
             lb = lb.max(bound);
             outs.push(oc);
         }
-        return Ok(Some(Solution::assemble(
-            outs,
-            all_opt,
-            lb,
-            std::mem::take(stats),
-        )));
+        let mut sol = Solution::assemble(outs, all_counts, lb, std::mem::take(stats));
+        sol.literals_optimal = all_counts && all_opt;
+        return Ok(Some(sol));
     }
     // Shared candidates: for each group of outputs whose on-sets can share a product,
     // the dhf-primes of the intersection of their on+dc sets.
@@ -191,12 +190,10 @@ fn solve_inner(
             o.optimal = o.cubes.len() == o.lower_bound;
         }
     }
-    Ok(Some(Solution::assemble(
-        outs,
-        opt,
-        lb,
-        std::mem::take(stats),
-    )))
+    let mut sol = Solution::assemble(outs, false, lb, std::mem::take(stats));
+    sol.optimal = sol.cube_count <= sol.lower_bound;
+    sol.literals_optimal = sol.optimal && opt;
+    Ok(Some(sol))
 }
 
 /// The dhf-primes of output `j` alone and the number of primes; `None` when the
@@ -306,6 +303,7 @@ fn cover_problem(
         Err(_) => return Err(no_cover_for_point(&specs[0])),
     };
     stats.nodes += out.nodes;
+    stats.count_search += out.count_time;
     stats.stopped |= !out.optimal;
     stats.core.0 += out.core.0;
     stats.core.1 += out.core.1;
@@ -359,7 +357,8 @@ fn cover_problem(
         cubes.sort();
         let own_lb = independent_rows(&my_rows);
         let (optimal, lower_bound) = if specs.len() == 1 {
-            (out.optimal, (out.lower_bound >> 32) as usize)
+            let lb = (out.lower_bound >> 32) as usize;
+            (cubes.len() <= lb, lb)
         } else {
             (cubes.len() <= own_lb, own_lb)
         };

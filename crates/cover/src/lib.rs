@@ -301,6 +301,9 @@ pub struct Stats {
     /// covers are then the best found (or, when no search had started, a valid cover
     /// built without search) and `optimal` holds only if the count meets the bound.
     pub stopped: bool,
+    /// Wall time of the exact covering searches' first phase (the product count),
+    /// summed over problems.
+    pub count_search: Duration,
     /// Wall time.
     pub elapsed: Duration,
 }
@@ -317,9 +320,15 @@ pub struct Solution {
     pub cube_count: usize,
     /// Literals summed over the distinct products.
     pub literal_count: usize,
-    /// Whether the product count is proven minimum for the mode (products first, then
-    /// literals, for exact covers that finished).
+    /// Whether the product count is proven minimum for the mode (`cube_count` equals
+    /// `lower_bound`). Exact covers prove it in a first search on products alone; the
+    /// heuristic and the fallback covers claim it only when their count meets their
+    /// bound.
     pub optimal: bool,
+    /// Whether, in addition, the literal count is proven minimum among all covers with
+    /// `cube_count` products (exact covers whose second search, on literals, finished;
+    /// `false` when the budget stopped it, and always for the heuristic).
+    pub literals_optimal: bool,
     /// A proven lower bound on the number of distinct products.
     pub lower_bound: usize,
     /// How the search went.
@@ -352,6 +361,7 @@ impl Solution {
             literal_count,
             products,
             optimal,
+            literals_optimal: false,
             lower_bound: lower_bound.min(cube_count),
             stats,
         }

@@ -35,6 +35,7 @@ proptest! {
         let mf = single(n, &on, &dc, vec![]);
         let exact = minimize(&mf, &Config::default().hazards(HazardMode::None)).unwrap();
         prop_assert!(exact.optimal);
+        prop_assert!(exact.literals_optimal);
         prop_assert_eq!(exact.cube_count, petrick_min(n, &on, &dc));
         verify::check(&mf, &exact, HazardMode::None).map_err(|v| TestCaseError::fail(format!("{v:?}")))?;
         let fast = minimize(&mf, &Config::default().hazards(HazardMode::None).effort(Effort::Fast)).unwrap();
@@ -127,6 +128,7 @@ proptest! {
         };
         prop_assert!(oracle_ok);
         prop_assert!(exact.optimal);
+        prop_assert!(exact.literals_optimal);
         verify::check(&mf, &exact, HazardMode::Full).map_err(|v| TestCaseError::fail(format!("{v:?}")))?;
         let fast = minimize(&mf, &Config::default().effort(Effort::Fast)).unwrap();
         verify::check(&mf, &fast, HazardMode::Full).map_err(|v| TestCaseError::fail(format!("{v:?}")))?;
@@ -207,6 +209,7 @@ fn all_legal_products(
         products: cubes,
         literal_count: lits,
         optimal: false,
+        literals_optimal: false,
         lower_bound: 0,
         stats: Default::default(),
     }

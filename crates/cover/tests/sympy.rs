@@ -57,6 +57,7 @@ fn never_worse_than_sympy_sopform() {
             cube_count: sympy_cubes.len(),
             literal_count: sympy_lits,
             optimal: false,
+            literals_optimal: false,
             lower_bound: 0,
             stats: Default::default(),
         };
