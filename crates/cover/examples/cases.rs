@@ -1,6 +1,7 @@
 //! Manual timing of the budget and speed cases (not a benchmark):
 //! `cargo run --release -p stillpoint-cover --example cases -- CASE [BUDGET_S] [SEED]`
-//! with CASE one of `dense14` (45 % on, 15 % dc, plain, exact), `scatter30` (5000
+//! with CASE one of `dense12` / `dense13` / `dense14` (12 to 14 variables, 45 % on,
+//! 15 % dc, plain, exact), `scatter30` (5000
 //! random minterms of 30 variables, static, exact), `fast20` (20 variables, 30 % on,
 //! 10 % dc, plain, heuristic), `exact12` / `exact12full` / `exact12static` (12
 //! variables, 30 % on, 10 % dc), `exact16` / `exact16full` / `exact16static` (16 variables, 30 % on, 10 % dc),
@@ -71,6 +72,8 @@ fn main() {
     let seed: u64 = a.get(3).and_then(|s| s.parse().ok()).unwrap_or(5);
     let (n, p_on, p_dc, mode, effort) = match case {
         "dense14" => (14, 45, 15, HazardMode::None, Effort::Exact),
+        "dense12" => (12, 45, 15, HazardMode::None, Effort::Exact),
+        "dense13" => (13, 45, 15, HazardMode::None, Effort::Exact),
         "scatter30" => (30, 0, 0, HazardMode::Static, Effort::Exact),
         "fast20" => (20, 30, 10, HazardMode::None, Effort::Fast),
         "fast20full" => (20, 30, 10, HazardMode::Full, Effort::Fast),

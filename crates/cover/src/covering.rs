@@ -171,6 +171,13 @@ struct Sub {
 
 /// Solves `p` exactly within `limits`. `Err(row)` when row `row` has no column.
 pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
+    solve_from(p, limits, None)
+}
+
+/// [`solve`] starting from a known cover `start` (column indices; ignored unless it
+/// covers every row): the first upper bound, and the answer when the budget stops the
+/// search before anything better is found.
+pub fn solve_from(p: &Problem, limits: Limits, start: Option<&[usize]>) -> Result<Outcome, usize> {
     let words = p.ncols.div_ceil(64).max(1);
     let mut rows = Vec::with_capacity(p.rows.len());
     for (i, r) in p.rows.iter().enumerate() {
@@ -194,15 +201,36 @@ pub fn solve(p: &Problem, limits: Limits) -> Result<Outcome, usize> {
         (1, 0)
     };
     let started = Instant::now();
+    let start: Option<Vec<usize>> = start
+        .filter(|cols| {
+            cols.iter().all(|&c| c < p.ncols)
+                && rows.iter().all(|r| cols.iter().any(|&c| has(r, c)))
+        })
+        .map(|cols| {
+            let mut v = cols.to_vec();
+            v.sort_unstable();
+            v.dedup();
+            v
+        });
+    let seed_with = |cost: &[u64]| {
+        start.as_ref().map(|cols| {
+            (
+                (cols.iter().map(|&c| cost[c]).sum::<u64>(), cols.clone()),
+                0,
+            )
+        })
+    };
     if unit == 1 {
-        let r = run(&p.cost, rows, p.ncols, limits, (1, 0), None);
+        let seed = seed_with(&p.cost);
+        let r = run(&p.cost, rows, p.ncols, limits, (1, 0), seed);
         return Ok(r.outcome(started.elapsed()));
     }
     // Phase 1: the product count alone (every column costs `COUNT_UNIT`, so the
     // integer Lagrangian multipliers can take fractional values of a product): far
     // more columns dominate each other and the bounds have no literal part to close.
     let ones = vec![COUNT_UNIT; p.ncols];
-    let first = run(&ones, rows.clone(), p.ncols, limits, (COUNT_UNIT, 0), None);
+    let seed = seed_with(&ones);
+    let first = run(&ones, rows.clone(), p.ncols, limits, (COUNT_UNIT, 0), seed);
     let lex: u64 = first.cols.iter().map(|&c| p.cost[c]).sum();
     let count_lb = (first.lb.min(first.cost) / COUNT_UNIT).saturating_mul(unit);
     let count_time = started.elapsed();
@@ -366,7 +394,12 @@ impl Search<'_> {
             };
         }
         let seed = self.seed.take();
-        let comps = self.components(&n);
+        // Out of time: no split (the greedy cover of the whole node is the answer).
+        let comps = if self.clock.now() {
+            Vec::new()
+        } else {
+            self.components(&n)
+        };
         if comps.len() > 1 {
             let mut total = Sub {
                 cost: n.cost,
@@ -405,7 +438,8 @@ impl Search<'_> {
         }
     }
 
-    /// Splits a reduced node into blocks of rows that share no column.
+    /// Splits a reduced node into blocks of rows that share no column; empty when it
+    /// is one block.
     fn components(&self, n: &Node) -> Vec<Node> {
         let ncol = self.words * 64;
         let mut parent: Vec<usize> = (0..ncol).collect();
@@ -429,20 +463,25 @@ impl Search<'_> {
             }
         }
         let mut group_of: Vec<usize> = vec![usize::MAX; ncol];
-        let mut groups: Vec<(Vec<Bits>, Vec<[i64; 2]>)> = Vec::new();
-        for (r, &u) in n.rows.iter().zip(&n.mult) {
+        let mut row_group: Vec<usize> = Vec::with_capacity(n.rows.len());
+        let mut ngroups = 0;
+        for r in &n.rows {
             let first = ones(r).next().unwrap_or(0);
             let root = find(&mut parent, first);
             if group_of[root] == usize::MAX {
-                group_of[root] = groups.len();
-                groups.push((Vec::new(), Vec::new()));
+                group_of[root] = ngroups;
+                ngroups += 1;
             }
-            let k = group_of[root];
+            row_group.push(group_of[root]);
+        }
+        if ngroups <= 1 {
+            // One block: no copy (callers read an empty list as "not split").
+            return Vec::new();
+        }
+        let mut groups: Vec<(Vec<Bits>, Vec<[i64; 2]>)> = vec![(Vec::new(), Vec::new()); ngroups];
+        for ((r, &u), &k) in n.rows.iter().zip(&n.mult).zip(&row_group) {
             groups[k].0.push(r.clone());
             groups[k].1.push(u);
-        }
-        if groups.len() == 1 {
-            return vec![n.clone()];
         }
         groups
             .into_iter()
@@ -506,7 +545,7 @@ impl Search<'_> {
             if n.rows.is_empty() {
                 return true;
             }
-            if self.clock.expired() {
+            if self.clock.now() {
                 // Out of time: the dominance reductions are optional.
                 return true;
             }
@@ -515,6 +554,9 @@ impl Search<'_> {
             let rw = nr.div_ceil(64).max(1);
             let mut colrows: Vec<Bits> = vec![Vec::new(); self.words * 64];
             for (ri, r) in n.rows.iter().enumerate() {
+                if self.clock.tick() {
+                    return true;
+                }
                 for c in ones(r) {
                     if colrows[c].is_empty() {
                         colrows[c] = vec![0u64; rw];

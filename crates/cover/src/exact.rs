@@ -298,7 +298,12 @@ fn cover_problem(
         cost,
         rows,
     };
-    let out = match covering::solve(&problem, limits) {
+    let start = if specs.len() == 1 && !clock.now() {
+        heuristic_start(&specs[0], cands, clock)
+    } else {
+        None
+    };
+    let out = match covering::solve_from(&problem, limits, start.as_deref()) {
         Ok(o) => o,
         Err(_) => return Err(no_cover_for_point(&specs[0])),
     };
@@ -370,6 +375,30 @@ fn cover_problem(
         });
     }
     Ok(Some((outs, out.optimal, (out.lower_bound >> 32) as usize)))
+}
+
+/// The point-table heuristic's cover as columns (each product mapped to a candidate
+/// holding it), the first upper bound of the search; `None` without a point table or
+/// when some product maps to no candidate quickly.
+fn heuristic_start(s: &OutputSpec, cands: &[Cube], clock: &Clock) -> Option<Vec<usize>> {
+    let t = s.table.as_ref()?;
+    let cover = crate::dense::cover(s, t, clock)?;
+    let index: std::collections::HashMap<Cube, usize> =
+        cands.iter().enumerate().map(|(i, &c)| (c, i)).collect();
+    let mut misses = 0usize;
+    let mut cols = Vec::with_capacity(cover.len());
+    for d in &cover {
+        if let Some(&i) = index.get(d) {
+            cols.push(i);
+            continue;
+        }
+        misses += 1;
+        if misses > 64 || clock.now() {
+            return None;
+        }
+        cols.push(cands.iter().position(|c| c.contains(d))?);
+    }
+    Some(cols)
 }
 
 fn no_cover_for_point(s: &OutputSpec) -> CoverError {

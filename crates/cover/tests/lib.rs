@@ -1,5 +1,6 @@
 //! Integration tests of the cover crate (one binary).
 
+mod budget;
 mod checks;
 mod common;
 mod props;
