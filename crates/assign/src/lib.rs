@@ -38,6 +38,7 @@
 pub mod adjacent;
 mod codes;
 pub mod dichotomy;
+mod local;
 pub mod one_hot;
 mod problem;
 pub mod races;

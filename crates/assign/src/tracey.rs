@@ -483,11 +483,14 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
     out
 }
 
-/// The SAT engine (see [`crate::sat`]): from the incumbent `best` (at least one cover)
-/// widths `ub - 1, ub - 2, ...` are decided until one is infeasible (the incumbent is then
-/// optimal), the proven bound is reached, or half the work allowance is spent; then
-/// widths `lb, lb + 1, ...` upward, each proven infeasible raising the bound, until the
-/// allowance stops a solve.
+/// The SAT engine (see [`crate::sat`]) with the local search ([`crate::local`]): first,
+/// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
+/// searched for by the local search alone (each start from the incumbent's codes, at most
+/// an eighth of the allowance in all and 16 first allowances per width) while it finds
+/// codes; then widths `lb, lb + 1, ...`
+/// upward are decided ([`crate::sat::decide_alternating`]: local search, the
+/// lexicographic and the clique encodings in turn), each proven infeasible raising the
+/// bound, until one is feasible (it is then optimal) or the allowance stops a solve.
 pub(crate) fn exact_sat(
     p: &Problem,
     ds: &[Dichotomy],
@@ -497,49 +500,52 @@ pub(crate) fn exact_sat(
     lower_bound: usize,
     nodes: u64,
 ) -> ExactResult {
-    use crate::sat::{decide_alternating as decide, Answer};
+    use crate::sat::{decide, decide_alternating, local_search, Answer, Sym};
     let clique = incompatible_clique(ds, ds.len().min(512));
     let n = p.num_states;
     let mut lb = lower_bound.max(log2_bound(n)).max(clique.len());
     let mut ub = best[0].len().max(1);
-    let mut proven_at_ub = false;
-    // Downward for up to half the allowance, then upward from the bound.
+    let start_of = |cls: &Classes| fill(p, cls);
+    // Downward, local search only.
     let mut down = work.part(if work.left == u64::MAX {
         u64::MAX
     } else {
-        work.left / 2
+        work.left / 8
     });
-    while ub > lb {
-        match decide(n, ds, &clique, ub - 1, &mut down, want) {
-            Answer::Found(f) => {
+    while ub > lb && !down.spent() {
+        let start = start_of(&best[0]);
+        // Each width at most 16 first allowances (bounded also when the work is not).
+        let room = down.left.min(16 * crate::sat::FIRST_ALLOWANCE);
+        match local_search(n, ds, ub - 1, &start, &mut down, room, 0) {
+            Some(cls) => {
                 ub -= 1;
-                best = f;
-                proven_at_ub = true;
+                best = vec![cls];
             }
-            Answer::Infeasible => lb = ub,
-            Answer::Stopped => break,
+            None => break,
         }
     }
     work.absorb(&down);
-    while lb < ub && !work.clock_fired {
-        match decide(n, ds, &clique, lb, work, want) {
+    // Upward, decided.
+    while lb < ub && !work.spent() {
+        let start = start_of(&best[0]);
+        match decide_alternating(n, ds, &clique, lb, work, want, &start) {
             Answer::Found(f) => {
-                // Only when the downward phase stopped early: lb is the optimum.
                 ub = lb;
                 best = f;
-                proven_at_ub = true;
             }
             Answer::Infeasible => lb += 1,
             Answer::Stopped => break,
         }
     }
-    if lb >= ub && want > best.len() && !proven_at_ub {
-        // The incumbent came from elsewhere: ask for alternatives at its width.
-        if let Answer::Found(f) = decide(n, ds, &clique, ub, work, want) {
+    if lb >= ub && want > best.len() && !work.spent() {
+        // Alternatives at the optimal width.
+        let mut part = work.part(work.left / 4);
+        if let Answer::Found(f) = decide(n, ds, &clique, ub, &mut part, want, Sym::Clique) {
             if f.len() > best.len() {
                 best = f;
             }
         }
+        work.absorb(&part);
     }
     ExactResult {
         classes: best,
