@@ -51,7 +51,8 @@ pub struct OutputSpec {
     pub on: Vec<Cube>,
     /// Effective don't-care set.
     pub dc: Vec<Cube>,
-    /// Effective off-set.
+    /// Effective off-set, as cubes; empty when the point table holds the sets (up to
+    /// 20 variables): ask [`OutputSpec::off_witness`] instead.
     pub off: Vec<Cube>,
     /// Required cubes (full mode).
     pub required: Vec<Required>,
@@ -75,11 +76,11 @@ impl OutputSpec {
     }
 
     /// An off-set point of `c` (a full-length cube), if any: from the point table when
-    /// that is cheaper than a scan of the off-set cubes.
+    /// there is one, else from the off-set cubes.
     pub fn off_witness(&self, c: &Cube) -> Option<Cube> {
         match &self.table {
-            Some(t) if c.size(self.nvars) <= self.off.len().max(64) as u128 => t.off_witness(c),
-            _ => self.off.iter().find_map(|o| witness(o, c, self.nvars)),
+            Some(t) => t.off_witness(c),
+            None => self.off.iter().find_map(|o| witness(o, c, self.nvars)),
         }
     }
 
@@ -124,7 +125,8 @@ pub(crate) fn prepare_within(
     // it; wider functions take the complement by unate recursion.
     let mut table = Table::build(n, &on, &dc);
     let off = match &table {
-        Some(t) => t.off_cubes(),
+        // The table answers every off-set question; no list is kept.
+        Some(_) => Vec::new(),
         None => {
             let mut all = on.clone();
             all.extend_from_slice(&dc);
@@ -213,10 +215,8 @@ pub(crate) fn prepare_within(
     spec.dc = dc;
     spec.on.extend(ones.iter().map(|(c, _)| *c));
     scc_within(&mut spec.on, clock);
-    spec.off.extend(zeros.iter().map(|(c, _)| *c));
     if table.is_none() {
-        // (With a point table the off-set cubes serve only as a list of its points:
-        // containment among them does not matter.)
+        spec.off.extend(zeros.iter().map(|(c, _)| *c));
         scc_within(&mut spec.off, clock);
     }
     if let Some(t) = &mut table {

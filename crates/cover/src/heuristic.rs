@@ -34,7 +34,7 @@ pub(crate) fn solve(
     let mut outs = Vec::with_capacity(specs.len());
     let mut lb_all = 0;
     for (s, mut cubes) in specs.iter().zip(covers) {
-        cubes.sort();
+        cubes.sort_unstable();
         let lb = lower_bound(s, &cubes, grace);
         lb_all = lb_all.max(lb);
         outs.push(OutputCover {
