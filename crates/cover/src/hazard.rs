@@ -209,12 +209,24 @@ pub(crate) fn prepare_within(
         }
     }
     let forced: Vec<Cube> = ones.iter().chain(&zeros).map(|(c, _)| *c).collect();
-    let Some(dc) = sharp_within(&spec.dc, &forced, clock) else {
-        return Ok(None);
-    };
+    // Only the don't-care cubes that meet a transition cube change.
+    let (hit, mut dc): (Vec<Cube>, Vec<Cube>) = spec
+        .dc
+        .iter()
+        .partition(|d| forced.iter().any(|f| f.intersects(d)));
+    if !hit.is_empty() {
+        let Some(rest) = sharp_within(&hit, &forced, clock) else {
+            return Ok(None);
+        };
+        dc.extend(rest);
+    }
     spec.dc = dc;
     spec.on.extend(ones.iter().map(|(c, _)| *c));
-    scc_within(&mut spec.on, clock);
+    if table.is_none() || spec.on.len() <= 4096 {
+        // (With a point table, on-set cubes inside a 1 -> 1 cube may stay: the on-set
+        // is a cover, not necessarily containment-free.)
+        scc_within(&mut spec.on, clock);
+    }
     if table.is_none() {
         spec.off.extend(zeros.iter().map(|(c, _)| *c));
         scc_within(&mut spec.off, clock);
