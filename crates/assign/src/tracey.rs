@@ -486,7 +486,7 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// The SAT engine (see [`crate::sat`]) with the local search ([`crate::local`]): first,
 /// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
 /// searched for by the local search alone (each start from the incumbent's codes, at most
-/// an eighth of the allowance in all and 16 first allowances per width) while it finds
+/// an eighth of the allowance in all and 4 first allowances per width) while it finds
 /// codes; then widths `lb, lb + 1, ...`
 /// upward are decided ([`crate::sat::decide_alternating`]: local search, the
 /// lexicographic and the clique encodings in turn), each proven infeasible raising the
@@ -514,8 +514,8 @@ pub(crate) fn exact_sat(
     });
     while ub > lb && !down.spent() {
         let start = start_of(&best[0]);
-        // Each width at most 16 first allowances (bounded also when the work is not).
-        let room = down.left.min(16 * crate::sat::FIRST_ALLOWANCE);
+        // Each width at most 4 first allowances (bounded also when the work is not).
+        let room = down.left.min(4 * crate::sat::FIRST_ALLOWANCE);
         match local_search(n, ds, ub - 1, &start, &mut down, room, 0) {
             Some(cls) => {
                 ub -= 1;
