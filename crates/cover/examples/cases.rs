@@ -1,5 +1,6 @@
 //! Manual timing of the budget and speed cases (not a benchmark):
-//! `cargo run --release -p stillpoint-cover --example cases -- CASE [BUDGET_S] [SEED]`
+//! `cargo run --release -p stillpoint-cover --example cases -- CASE [BUDGET_S] [SEED]
+//! [LITERAL_BUDGET_S]`
 //! with CASE one of `dense12` / `dense13` / `dense14` (12 to 14 variables, 45 % on,
 //! 15 % dc, plain, exact), `scatter30` (5000
 //! random minterms of 30 variables, static, exact), `fast20` (20 variables, 30 % on,
@@ -117,10 +118,13 @@ fn main() {
             )
         }
     };
-    let cfg = Config::default()
+    let mut cfg = Config::default()
         .hazards(mode)
         .effort(effort)
         .budget(Duration::from_secs_f64(budget));
+    if let Some(l) = a.get(4).and_then(|s| s.parse::<f64>().ok()) {
+        cfg = cfg.literal_budget(Duration::from_secs_f64(l));
+    }
     let t = Instant::now();
     match minimize(&mf, &cfg) {
         Ok(s) => {

@@ -58,6 +58,10 @@ pub struct Limits {
     pub deadline: Instant,
     /// Stop after this many nodes.
     pub node_limit: u64,
+    /// With lexicographic costs (products, then literals): the most time the second
+    /// phase (literals among covers of the proven product count) may take, within
+    /// `deadline`; `None` for all the time left.
+    pub literal_time: Option<std::time::Duration>,
 }
 
 type Bits = Vec<u64>;
@@ -249,7 +253,14 @@ pub fn solve_from(p: &Problem, limits: Limits, start: Option<&[usize]>) -> Resul
     }
     // Phase 2: literals among covers of the minimum count, starting from phase 1's
     // cover and knowing that no cover has fewer products.
+    let second_deadline = match limits.literal_time {
+        Some(t) => Instant::now()
+            .checked_add(t)
+            .map_or(limits.deadline, |d| d.min(limits.deadline)),
+        None => limits.deadline,
+    };
     let second_limits = Limits {
+        deadline: second_deadline,
         node_limit: limits.node_limit.saturating_sub(first.nodes),
         ..limits
     };
@@ -1210,6 +1221,7 @@ mod tests {
         Limits {
             deadline: Instant::now() + Duration::from_secs(10),
             node_limit: u64::MAX,
+            literal_time: None,
         }
     }
 

@@ -47,6 +47,7 @@ fn solve_inner(
             std::time::Instant::now() + std::time::Duration::from_secs(u32::MAX as u64)
         }),
         node_limit: cfg.nodes(),
+        literal_time: cfg.literal_budget_time(),
     };
     if !cfg.sharing() || specs.len() == 1 || specs.len() > 64 {
         let mut outs = Vec::with_capacity(specs.len());

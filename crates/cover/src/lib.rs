@@ -196,6 +196,7 @@ pub struct Config {
     budget: Duration,
     node_limit: u64,
     share_products: bool,
+    literal_budget: Option<Duration>,
 }
 
 impl Default for Config {
@@ -206,6 +207,7 @@ impl Default for Config {
             budget: Duration::from_secs(60),
             node_limit: u64::MAX,
             share_products: true,
+            literal_budget: None,
         }
     }
 }
@@ -230,6 +232,18 @@ impl Config {
     pub fn node_limit(mut self, nodes: u64) -> Self {
         self.node_limit = nodes;
         self
+    }
+    /// The most time the exact search may spend, once the product count is proven,
+    /// on minimising literals among covers of that count (default: the rest of the
+    /// budget). When it runs out the cover keeps `optimal` (the count) and has
+    /// `literals_optimal: false`.
+    pub fn literal_budget(mut self, budget: Duration) -> Self {
+        self.literal_budget = Some(budget);
+        self
+    }
+    /// The configured literal budget (`None`: the rest of the budget).
+    pub fn literal_budget_time(&self) -> Option<Duration> {
+        self.literal_budget
     }
     /// Whether outputs may share products (default `true`).
     pub fn share_products(mut self, share: bool) -> Self {

@@ -52,3 +52,20 @@ fn budget_stops_a_hard_exact_search_with_a_bound() {
         assert!(fast.lower_bound <= sol.cube_count);
     }
 }
+
+#[test]
+fn literal_budget_keeps_the_proven_count() {
+    // 12 variables, 30 % on, 10 % dc: the product count is proven by the first phase;
+    // with no time for the second phase the literals are not claimed minimum.
+    let (on, dc) = random(12, 30, 10, 5);
+    let mf = single(12, &on, &dc, vec![]);
+    let cfg = Config::default()
+        .hazards(HazardMode::None)
+        .literal_budget(Duration::ZERO);
+    let sol = minimize(&mf, &cfg).expect("a cover");
+    verify::check(&mf, &sol, HazardMode::None).expect("valid");
+    assert!(sol.optimal, "the product count is proven");
+    assert_eq!(sol.lower_bound, sol.cube_count);
+    assert!(!sol.literals_optimal, "the literal phase had no time");
+    assert!(sol.stats.stopped);
+}
