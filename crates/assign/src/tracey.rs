@@ -490,7 +490,9 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// codes; then widths `lb, lb + 1, ...`
 /// upward are decided ([`crate::sat::decide_alternating`]: local search, the
 /// lexicographic and the clique encodings in turn), each proven infeasible raising the
-/// bound, until one is feasible (it is then optimal) or the allowance stops a solve.
+/// bound, until one is feasible (it is then optimal) or the allowance stops a solve. The
+/// last open width, when the local search found nothing there, first gets one
+/// lexicographic solve with three quarters of the remaining work.
 pub(crate) fn exact_sat(
     p: &Problem,
     ds: &[Dichotomy],
@@ -512,6 +514,7 @@ pub(crate) fn exact_sat(
     } else {
         work.left / 8
     });
+    let mut local_failed = None;
     while ub > lb && !down.spent() {
         let start = start_of(&best[0]);
         // Each width at most 4 first allowances (bounded also when the work is not).
@@ -521,14 +524,30 @@ pub(crate) fn exact_sat(
                 ub -= 1;
                 best = vec![cls];
             }
-            None => break,
+            None => {
+                local_failed = Some(ub - 1);
+                break;
+            }
         }
     }
     work.absorb(&down);
     // Upward, decided.
     while lb < ub && !work.spent() {
         let start = start_of(&best[0]);
-        match decide_alternating(n, ds, &clique, lb, work, want, &start) {
+        let mut answer = Answer::Stopped;
+        if lb + 1 == ub && local_failed == Some(lb) {
+            // The last open width, where the local search found nothing: most likely
+            // infeasible, so one lexicographic solve gets three quarters of the work
+            // (restarting it with doubling allowances would cost about three times).
+            let share = work.left - work.left / 4;
+            let mut part = work.part(share);
+            answer = decide(n, ds, &clique, lb, &mut part, want, Sym::Lex);
+            work.absorb(&part);
+        }
+        if answer == Answer::Stopped && !work.spent() {
+            answer = decide_alternating(n, ds, &clique, lb, work, want, &start);
+        }
+        match answer {
             Answer::Found(f) => {
                 ub = lb;
                 best = f;
