@@ -91,6 +91,8 @@ fn main() {
         "exact16" => (16, 30, 10, HazardMode::None, Effort::Exact),
         "exact16full" => (16, 30, 10, HazardMode::Full, Effort::Exact),
         "exact16static" => (16, 30, 10, HazardMode::Static, Effort::Exact),
+        "exact20" => (20, 30, 10, HazardMode::None, Effort::Exact),
+        "exact20full" => (20, 30, 10, HazardMode::Full, Effort::Exact),
         other => panic!("unknown case {other}"),
     };
     let vars: Vec<String> = (0..n).map(|i| format!("x{i}")).collect();

@@ -30,9 +30,20 @@ pub(crate) fn solve(
     grace: &Clock,
 ) -> Result<Solution, CoverError> {
     let mut stats = Stats::default();
-    match solve_inner(specs, cfg, clock, &mut stats)? {
+    // The point-table heuristic first (milliseconds up to 16 variables, a few hundred
+    // at 20): the first upper bound of the search, and the answer if the budget runs
+    // out before the search starts.
+    let starts: Vec<Option<Vec<Cube>>> = specs
+        .iter()
+        .map(|s| {
+            s.table
+                .as_ref()
+                .and_then(|t| crate::dense::cover(s, t, clock))
+        })
+        .collect();
+    match solve_inner(specs, cfg, clock, &mut stats, &starts)? {
         Some(sol) => Ok(sol),
-        None => fallback::solution(specs, grace, stats),
+        None => fallback::solution(specs, grace, stats, &starts),
     }
 }
 
@@ -41,6 +52,7 @@ fn solve_inner(
     cfg: &Config,
     clock: &Clock,
     stats: &mut Stats,
+    starts: &[Option<Vec<Cube>>],
 ) -> Result<Option<Solution>, CoverError> {
     let limits = Limits {
         deadline: clock.deadline().unwrap_or_else(|| {
@@ -69,6 +81,7 @@ fn solve_inner(
                 limits,
                 clock,
                 stats,
+                starts[j].as_deref(),
             )?
             else {
                 return Ok(None);
@@ -180,7 +193,7 @@ fn solve_inner(
     valid = v2;
     let idx: Vec<usize> = (0..m).collect();
     let Some((mut outs, mut opt, mut lb)) =
-        cover_problem(specs, &cands, &valid, &idx, limits, clock, stats)?
+        cover_problem(specs, &cands, &valid, &idx, limits, clock, stats, None)?
     else {
         return Ok(None);
     };
@@ -226,6 +239,7 @@ fn cover_problem(
     limits: Limits,
     clock: &Clock,
     stats: &mut Stats,
+    start: Option<&[Cube]>,
 ) -> Result<Option<Covered>, CoverError> {
     let mut rows: Vec<Vec<usize>> = Vec::new();
     let mut row_owner: Vec<usize> = Vec::new();
@@ -299,10 +313,9 @@ fn cover_problem(
         cost,
         rows,
     };
-    let start = if specs.len() == 1 && !clock.now() {
-        heuristic_start(&specs[0], cands, clock)
-    } else {
-        None
+    let start = match start {
+        Some(cover) if specs.len() == 1 && !clock.now() => heuristic_start(cover, cands, clock),
+        _ => None,
     };
     let out = match covering::solve_from(&problem, limits, start.as_deref()) {
         Ok(o) => o,
@@ -378,17 +391,15 @@ fn cover_problem(
     Ok(Some((outs, out.optimal, (out.lower_bound >> 32) as usize)))
 }
 
-/// The point-table heuristic's cover as columns (each product mapped to a candidate
-/// holding it), the first upper bound of the search; `None` without a point table or
-/// when some product maps to no candidate quickly.
-fn heuristic_start(s: &OutputSpec, cands: &[Cube], clock: &Clock) -> Option<Vec<usize>> {
-    let t = s.table.as_ref()?;
-    let cover = crate::dense::cover(s, t, clock)?;
+/// A heuristic cover as columns (each product mapped to a candidate holding it), the
+/// first upper bound of the search; `None` when some product maps to no candidate
+/// quickly.
+fn heuristic_start(cover: &[Cube], cands: &[Cube], clock: &Clock) -> Option<Vec<usize>> {
     let index: std::collections::HashMap<Cube, usize> =
         cands.iter().enumerate().map(|(i, &c)| (c, i)).collect();
     let mut misses = 0usize;
     let mut cols = Vec::with_capacity(cover.len());
-    for d in &cover {
+    for d in cover {
         if let Some(&i) = index.get(d) {
             cols.push(i);
             continue;

@@ -2,7 +2,8 @@
 //! one, with a cheap proven lower bound.
 //!
 //! - Up to 20 variables (a point table): the point-table heuristic's cover
-//!   (`dense.rs`), expanded as far as the grace period allows, with its bound.
+//!   (`dense.rs`, computed before the exact search under the main budget), with its
+//!   bound.
 //! - Plain mode: the on-set cubes as given (containment-free).
 //! - Static mode: the on-set cubes plus, for every variable `v`, the cubes of adjacent
 //!   on-on pairs along `v` (`on|v=0 ∩ on|v=1` with `v` free): each lies in the on-set and
@@ -89,16 +90,21 @@ pub(crate) fn solution(
     specs: &[OutputSpec],
     clock: &Clock,
     stats: Stats,
+    starts: &[Option<Vec<Cube>>],
 ) -> Result<Solution, CoverError> {
     let mut outs = Vec::with_capacity(specs.len());
     let mut lb = 0;
-    for s in specs {
-        // With a point table the heuristic is cheap: its cover (expanded as far as the
-        // grace period allows) replaces the on-set cubes.
-        let dense = s
-            .table
-            .as_ref()
-            .and_then(|t| crate::dense::cover(s, t, clock).map(|c| (c, t)));
+    for (k, s) in specs.iter().enumerate() {
+        // With a point table, the heuristic cover computed before the search (or now,
+        // expanded as far as the grace period allows) replaces the on-set cubes.
+        let dense = s.table.as_ref().and_then(|t| {
+            starts
+                .get(k)
+                .cloned()
+                .flatten()
+                .or_else(|| crate::dense::cover(s, t, clock))
+                .map(|c| (c, t))
+        });
         let (mut cubes, table) = match dense {
             Some((c, t)) => (c, Some(t)),
             None => match start_cover(s, clock) {
