@@ -10,7 +10,8 @@
 //! covers and uncovers, and takes the best; when no flip gains, the weights of the
 //! uncovered dichotomies grow (clause weighting, common practice in local search for
 //! satisfiability, no source) and a random flip among the candidates may be taken. The
-//! number of steps is the limit, so the result is the same on every run.
+//! number of steps or of mask evaluations is the limit, so the result is the same on every
+//! run.
 
 use crate::dichotomy::{ones, Dichotomy};
 use std::time::Instant;
@@ -87,7 +88,7 @@ impl Flat {
 }
 
 /// Codes of width `k` (one `u64` per state, bit `i` = variable `i`) covering every
-/// dichotomy of `ds`, searched for at most `steps` steps from `start` (codes of any
+/// dichotomy of `ds`, searched for within the limits of `limit` from `start` (codes of any
 /// width: the columns beyond `k` that uncover the fewest dichotomies are dropped first;
 /// empty: a random start). `seed` varies the walk. `None` when the steps run out or
 /// the deadline (a safety net, checked every 1024 steps) has passed.
@@ -102,6 +103,7 @@ pub(crate) fn search(
     let mut out = Outcome {
         codes: None,
         steps: 0,
+        evals: 0,
         clock_fired: false,
     };
     if k == 0 || k > 64 || n == 0 {
@@ -129,7 +131,7 @@ pub(crate) fn search(
     }
     let mut score = vec![0i64; k];
     let mut cands: Vec<(u32, u32)> = Vec::with_capacity(4 * k);
-    while out.steps < limit.steps {
+    while out.steps < limit.steps && out.evals < limit.evals {
         if open.is_empty() {
             break;
         }
@@ -143,6 +145,7 @@ pub(crate) fn search(
         let mut best: Option<(i64, u32, u32)> = None;
         cands.clear();
         for &s in st {
+            out.evals += f.by_state[s as usize].len() as u64;
             score.iter_mut().for_each(|x| *x = 0);
             for &j2 in &f.by_state[s as usize] {
                 let j2 = j2 as usize;
@@ -176,6 +179,7 @@ pub(crate) fn search(
             }
         }
         codes[s as usize] ^= 1u64 << i;
+        out.evals += f.by_state[s as usize].len() as u64;
         for &j2 in &f.by_state[s as usize] {
             let j2 = j2 as usize;
             let was = mask[j2] != 0;
@@ -204,8 +208,11 @@ pub(crate) fn search(
 /// The limits of one [`search`].
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Steps {
-    /// Steps allowed (the deterministic limit).
+    /// Steps allowed (a deterministic limit).
     pub(crate) steps: u64,
+    /// Evaluations of a dichotomy's covering mask allowed (a deterministic limit that
+    /// follows the time better than steps: a step costs more on larger tables).
+    pub(crate) evals: u64,
     /// The wall-clock safety net.
     pub(crate) deadline: Option<Instant>,
 }
@@ -217,6 +224,8 @@ pub(crate) struct Outcome {
     pub(crate) codes: Option<Vec<u64>>,
     /// Steps taken.
     pub(crate) steps: u64,
+    /// Mask evaluations done.
+    pub(crate) evals: u64,
     /// Whether the deadline stopped it.
     pub(crate) clock_fired: bool,
 }
@@ -271,6 +280,7 @@ mod tests {
         let ds = required_for(&p).unwrap();
         let lim = |steps| Steps {
             steps,
+            evals: u64::MAX,
             deadline: None,
         };
         let codes = search(5, &ds, 3, &[], lim(100_000), 1)

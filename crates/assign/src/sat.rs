@@ -473,13 +473,14 @@ pub(crate) fn decide(
 /// The first allowance of [`decide_alternating`], in proof bytes.
 pub(crate) const FIRST_ALLOWANCE: u64 = 100_000;
 
-/// Work units charged per step of the local search ([`crate::local`]): about the time
-/// of this many proof bytes of the solver on the machine it was measured on (24-state
-/// tables of 16 columns: 10 us per step, 1.2 us per proof byte, load 4).
-pub(crate) const LOCAL_STEP_WORK: u64 = 10;
+/// Mask evaluations of the local search ([`crate::local`]) charged as one work unit:
+/// about the time of one proof byte of the solver on the machine it was measured on
+/// (24-state tables of 16 columns: about 350 evaluations and 10 us per step, 1.2 us per
+/// proof byte, load 4).
+pub(crate) const LOCAL_EVALS_PER_UNIT: u64 = 40;
 
 /// The local search ([`crate::local::search`]) for codes of width `k`, spending at most
-/// `allowance` of `work` (charged [`LOCAL_STEP_WORK`] units per step).
+/// `allowance` of `work` (one unit per [`LOCAL_EVALS_PER_UNIT`] mask evaluations).
 pub(crate) fn local_search(
     n: usize,
     ds: &[Dichotomy],
@@ -489,19 +490,23 @@ pub(crate) fn local_search(
     allowance: u64,
     seed: u64,
 ) -> Option<Classes> {
-    let steps = work.left.min(allowance) / LOCAL_STEP_WORK;
+    let evals = work
+        .left
+        .min(allowance)
+        .saturating_mul(LOCAL_EVALS_PER_UNIT);
     let out = crate::local::search(
         n,
         ds,
         k,
         start,
         crate::local::Steps {
-            steps,
+            steps: u64::MAX,
+            evals,
             deadline: work.deadline,
         },
         seed,
     );
-    let spent = out.steps.saturating_mul(LOCAL_STEP_WORK);
+    let spent = out.evals.div_ceil(LOCAL_EVALS_PER_UNIT);
     work.used = work.used.saturating_add(spent);
     work.left = work.left.saturating_sub(spent);
     work.clock_fired |= out.clock_fired;
@@ -586,6 +591,7 @@ mod tests {
         if v[4] == 2 {
             let lim = crate::local::Steps {
                 steps: v[5],
+                evals: u64::MAX,
                 deadline: None,
             };
             let c = crate::local::search(p.num_states, &ds, v[3] as usize, &[], lim, 0);

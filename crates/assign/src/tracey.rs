@@ -21,10 +21,10 @@
 //! `optimal = false` and that bound.
 //!
 //! The branch and bound gets at most `BB_NODES` (20 000) nodes (it settles small tables at once);
-//! if it has not proven its width, a SAT decision procedure for one width (module
-//! `sat`, an encoding on the dichotomies) continues from its best width and bound:
-//! widths below the incumbent are decided downward (half the remaining budget), then
-//! widths upward from the bound, each infeasible one raising it.
+//! if it has not proven its width, a local search (module `local`) looks for narrower
+//! codes below the incumbent, then widths upward from the bound are decided by the local
+//! search and a SAT decision procedure for one width (module `sat`, two encodings on the
+//! dichotomies) in turn, each infeasible width raising the bound.
 //!
 //! **Heuristic** ([`Method::TraceyFast`](crate::Method::TraceyFast)): first-fit packing of the dichotomies into variables, in a
 //! few deterministic orders, keeping the narrowest; its gap to the lower bound is reported.
@@ -486,13 +486,14 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// The SAT engine (see [`crate::sat`]) with the local search ([`crate::local`]): first,
 /// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
 /// searched for by the local search alone (each start from the incumbent's codes, at most
-/// an eighth of the allowance in all and 4 first allowances per width) while it finds
+/// an eighth of the allowance in all and a quarter of a first allowance per width) while it finds
 /// codes; then widths `lb, lb + 1, ...`
 /// upward are decided ([`crate::sat::decide_alternating`]: local search, the
 /// lexicographic and the clique encodings in turn), each proven infeasible raising the
 /// bound, until one is feasible (it is then optimal) or the allowance stops a solve. The
-/// last open width, when the local search found nothing there, first gets one
-/// lexicographic solve with three quarters of the remaining work.
+/// last open width, when the local search found nothing there, gets one cheap round of
+/// the three searches, then one lexicographic solve with three quarters of the
+/// remaining work.
 pub(crate) fn exact_sat(
     p: &Problem,
     ds: &[Dichotomy],
@@ -517,8 +518,9 @@ pub(crate) fn exact_sat(
     let mut local_failed = None;
     while ub > lb && !down.spent() {
         let start = start_of(&best[0]);
-        // Each width at most 4 first allowances (bounded also when the work is not).
-        let room = down.left.min(4 * crate::sat::FIRST_ALLOWANCE);
+        // Each width at most a quarter of a first allowance (bounded also when the work
+        // is not): the local search finds codes at once or not at all.
+        let room = down.left.min(crate::sat::FIRST_ALLOWANCE / 4);
         match local_search(n, ds, ub - 1, &start, &mut down, room, 0) {
             Some(cls) => {
                 ub -= 1;
@@ -536,9 +538,15 @@ pub(crate) fn exact_sat(
         let start = start_of(&best[0]);
         let mut answer = Answer::Stopped;
         if lb + 1 == ub && local_failed == Some(lb) {
-            // The last open width, where the local search found nothing: most likely
-            // infeasible, so one lexicographic solve gets three quarters of the work
-            // (restarting it with doubling allowances would cost about three times).
+            // The last open width, where the local search found nothing: after one
+            // cheap round of all three searches, most likely infeasible, so one
+            // lexicographic solve gets three quarters of the work (restarting it with
+            // doubling allowances would cost about three times).
+            let mut part = work.part(crate::sat::FIRST_ALLOWANCE * 3 / 2);
+            answer = decide_alternating(n, ds, &clique, lb, &mut part, want, &start);
+            work.absorb(&part);
+        }
+        if answer == Answer::Stopped && lb + 1 == ub && local_failed == Some(lb) && !work.spent() {
             let share = work.left - work.left / 4;
             let mut part = work.part(share);
             answer = decide(n, ds, &clique, lb, &mut part, want, Sym::Lex);
