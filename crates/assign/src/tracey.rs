@@ -486,7 +486,8 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// The SAT engine (see [`crate::sat`]) with the local search ([`crate::local`]): first,
 /// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
 /// searched for by the local search alone (each start from the incumbent's codes, at most
-/// an eighth of the allowance in all and a quarter of a first allowance per width) while it finds
+/// an eighth of the allowance in all, per width four first allowances or, for the last
+/// open width, a quarter of one) while it finds
 /// codes; then widths `lb, lb + 1, ...`
 /// upward are decided ([`crate::sat::decide_alternating`]: local search, the
 /// lexicographic and the clique encodings in turn), each proven infeasible raising the
@@ -518,9 +519,14 @@ pub(crate) fn exact_sat(
     let mut local_failed = None;
     while ub > lb && !down.spent() {
         let start = start_of(&best[0]);
-        // Each width at most a quarter of a first allowance (bounded also when the work
-        // is not): the local search finds codes at once or not at all.
-        let room = down.left.min(crate::sat::FIRST_ALLOWANCE / 4);
+        // Each width at most a quarter of a first allowance when it is the last open
+        // one (the upward phase tries it again), four first allowances otherwise
+        // (bounded also when the work is not): the local search mostly finds codes at
+        // once or not at all.
+        let first = crate::sat::FIRST_ALLOWANCE;
+        let room = down
+            .left
+            .min(if ub - 1 > lb { 4 * first } else { first / 4 });
         match local_search(n, ds, ub - 1, &start, &mut down, room, 0) {
             Some(cls) => {
                 ub -= 1;
