@@ -246,9 +246,9 @@ impl AssignConfig {
 
 /// SAT work units (bytes of solver proof output) the exact Tracey method may spend per
 /// second of [`AssignConfig::budget`]. Calibrated on the 2-core machine this was measured
-/// on: the solver wrote 0.7–1.1 MB of proof per second there under a load of 5–7, so the
-/// allowance is normally spent in half to three quarters of the budget, leaving the
-/// wall-clock safety net for a slower or busier machine.
+/// on: the solver wrote 0.7–1.1 MB of proof per second there under a load of 3–7, and
+/// the allowance of a 10 s budget was spent in 3.6–8.7 s on random 24- and 32-state
+/// tables, leaving the wall-clock safety net for a slower or busier machine.
 pub const SAT_WORK_PER_SECOND: u64 = 500_000;
 
 /// Counts and times of one [`assign`] run.
