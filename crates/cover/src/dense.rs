@@ -34,11 +34,21 @@ use crate::cube::{mask, Cube};
 use crate::hazard::OutputSpec;
 use crate::points::{each_point, Table, OFF, ON};
 
-/// The largest `N(p)` (free variables) enumerated by the lower bound.
+/// Points whose `N(p)` has at most this many free variables are lower-bound
+/// candidates even when no product of the cover holds them alone.
 const BOUND_DIM: u32 = 6;
 
-/// Rounds of reduce / expand / irredundant after the first cover.
+/// The largest `N(p)` (free variables) the lower bound enumerates.
+const ENUM_DIM: u32 = 8;
+
+/// The longest chosen list the lower bound scans for a candidate with a larger `N`.
+const SCAN_MAX: usize = 2048;
+
+/// Rounds of reduce / expand / irredundant after the first cover (above 16 variables).
 const ROUNDS: usize = 1;
+
+/// The same, up to 16 variables (stopping early when a round gains nothing).
+const SMALL_ROUNDS: usize = 4;
 
 /// The working state: the chosen products and how often each point, adjacent pair and
 /// required cube is held.
@@ -390,8 +400,15 @@ pub(crate) fn cover(s: &OutputSpec, t: &Table, clock: &Clock) -> Option<Vec<Cube
     e.compact();
     let mut best = e.cubes();
     let mut best_cost = e.cost();
-    // (Static mode: the rounds gain a few tenths of a percent at twice the time.)
-    let rounds = if s.adjacent_pairs { 0 } else { ROUNDS };
+    // Above 16 variables one round (none in static mode, where it gains a few tenths
+    // of a percent at twice the time); small spaces get more.
+    let rounds = if t.nvars() <= 16 {
+        SMALL_ROUNDS
+    } else if s.adjacent_pairs {
+        0
+    } else {
+        ROUNDS
+    };
     for _ in 0..rounds {
         if clock.now() {
             break;
@@ -437,54 +454,97 @@ pub(crate) fn irredundant(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
 }
 
 /// The lower bound of the module docs: a greedy set of on-set points pairwise in no
-/// common implicant.
-pub(crate) fn lower_bound(t: &Table, clock: &Clock) -> usize {
+/// common legal product. Candidates: for each product of `cover` (smallest first) a
+/// point only it holds, then the points whose `N` has at most [`BOUND_DIM`] free
+/// variables (fewest first). Two points are compatible when each lies in the other's
+/// `N` and the closure of their supercube holds no off-set point (every legal product
+/// holding both holds that closure). A candidate's chosen compatible partners lie in its
+/// `N`, which is enumerated when it has at most [`ENUM_DIM`] free variables; otherwise
+/// the chosen list is scanned while it is short, and the candidate is skipped beyond.
+pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clock) -> usize {
+    let n = t.nvars();
+    let st = t.states();
+    let free_of = t.neighbours();
+    let mut cnt = vec![0u8; st.len()];
+    for c in cover {
+        each_point(c, n, |p| {
+            cnt[p] = cnt[p].saturating_add(1);
+            true
+        });
+    }
+    let mut by_size: Vec<usize> = (0..cover.len()).collect();
+    by_size.sort_unstable_by_key(|&k| (std::cmp::Reverse(cover[k].literal_count()), k));
+    let mut cands: Vec<u32> = Vec::new();
+    for &k in &by_size {
+        let mut found = None;
+        each_point(&cover[k], n, |p| {
+            if st[p] == ON && cnt[p] == 1 {
+                found = Some(p as u32);
+                false
+            } else {
+                true
+            }
+        });
+        cands.extend(found);
+    }
+    drop(cnt);
+    let mut buckets: Vec<Vec<u32>> = vec![Vec::new(); BOUND_DIM as usize + 1];
+    for p in 0..st.len() {
+        let f = free_of[p].count_ones();
+        if st[p] == ON && f <= BOUND_DIM {
+            buckets[f as usize].push(p as u32);
+        }
+    }
+    let small: Vec<u32> = buckets.into_iter().flatten().collect();
+    // Two greedy orders (each set is a bound; the larger counts): the points with the
+    // smallest N first, and the cover's uniquely held points first.
+    let a = greedy_points(s, t, &small, clock);
+    cands.extend_from_slice(&small);
+    let b = greedy_points(s, t, &cands, clock);
+    let k = a.max(b);
+    if k == 0 && st.contains(&ON) {
+        return 1;
+    }
+    k
+}
+
+/// The greedy set of [`lower_bound`] over candidates `cands`, in order: its size.
+fn greedy_points(s: &OutputSpec, t: &Table, cands: &[u32], clock: &Clock) -> usize {
     let n = t.nvars();
     let st = t.states();
     let full = mask(n);
-    // N(p) as the mask of its free variables.
     let free_of = t.neighbours();
-    let mut order: Vec<Vec<u32>> = vec![Vec::new(); BOUND_DIM as usize + 1];
-    for p in 0..st.len() {
-        let f = free_of[p];
-        if st[p] == ON && f.count_ones() <= BOUND_DIM {
-            order[f.count_ones() as usize].push(p as u32);
-        }
-    }
     let mut chosen = vec![false; st.len()];
-    let mut count = 0usize;
-    for bucket in &order {
-        for &p in bucket {
-            if clock.tick() {
-                return count.max(1);
+    let mut list: Vec<usize> = Vec::new();
+    for &p in cands {
+        let p = p as usize;
+        if chosen[p] {
+            continue;
+        }
+        if clock.tick() {
+            break;
+        }
+        let fp = free_of[p] as u64;
+        let compatible = |q: usize| -> bool {
+            let d = (p ^ q) as u64;
+            if d & !(free_of[q] as u64) != 0 || d & !fp != 0 {
+                return false;
             }
-            let p = p as usize;
-            let fp = free_of[p] as u64;
+            let sc = s.closure(&Cube::from_words(full & !d, p as u64));
+            t.off_witness(&sc).is_none()
+        };
+        let clash = if fp.count_ones() <= ENUM_DIM {
             let np = Cube::from_words(full & !fp, p as u64);
-            let clash = !each_point(&np, n, |q| {
-                // (Only tried points, whose N has at most BOUND_DIM free variables,
-                // are ever chosen.)
-                if !chosen[q] {
-                    return true;
-                }
-                let fq = free_of[q] as u64;
-                // Compatible: p inside N(q) and the supercube holds no off-set point.
-                let d = (p ^ q) as u64;
-                if d & !fq != 0 {
-                    return true;
-                }
-                let sc = Cube::from_words(full & !d, p as u64);
-                let no_off = each_point(&sc, n, |x| st[x] != OFF);
-                !no_off
-            });
-            if !clash {
-                chosen[p] = true;
-                count += 1;
-            }
+            !each_point(&np, n, |q| !(chosen[q] && compatible(q)))
+        } else if list.len() <= SCAN_MAX {
+            list.iter().any(|&q| compatible(q))
+        } else {
+            continue;
+        };
+        if !clash {
+            chosen[p] = true;
+            list.push(p);
         }
     }
-    if count == 0 && st.contains(&ON) {
-        return 1;
-    }
-    count
+    list.len()
 }

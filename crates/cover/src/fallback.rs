@@ -114,7 +114,7 @@ pub(crate) fn solution(
         };
         cubes.sort();
         let bound = match table {
-            Some(t) => crate::dense::lower_bound(t, clock),
+            Some(t) => crate::dense::lower_bound(s, t, &cubes, clock),
             None => point_bound(&cubes, &s.on, &s.dc, s.nvars, clock),
         };
         lb = lb.max(bound);

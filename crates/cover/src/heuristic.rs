@@ -59,9 +59,27 @@ pub(crate) fn solve(
 pub(crate) fn cover_one(s: &OutputSpec, clock: &Clock, grace: &Clock) -> Option<Vec<Cube>> {
     if let Some(t) = &s.table {
         if let Some(c) = crate::dense::cover(s, t, clock) {
+            // A function given as few cubes: the cube-list engine is cheap too and
+            // sometimes better (large cubes); keep the cheaper cover.
+            if s.on.len() <= FEW_CUBES && !clock.now() {
+                if let Some(o) = cover_cubes(s, clock, grace) {
+                    if cost(&o) < cost(&c) {
+                        return Some(o);
+                    }
+                }
+            }
             return Some(c);
         }
     }
+    cover_cubes(s, clock, grace)
+}
+
+/// Up to this many on-set cubes the point-table heuristic's cover is compared with the
+/// cube-list engine's.
+const FEW_CUBES: usize = 256;
+
+/// The cube-list engine: heuristic cover of one output without a point table.
+fn cover_cubes(s: &OutputSpec, clock: &Clock, grace: &Clock) -> Option<Vec<Cube>> {
     // Start: required cubes (closed under the privileged rule) and the on-set outside
     // every privileged cube (its points inside one are held by required cubes).
     let mut f: Vec<Cube> = s.required.iter().map(|r| s.closure(&r.cube)).collect();
@@ -358,7 +376,7 @@ fn share(specs: &[OutputSpec], covers: &mut [Vec<Cube>], clock: &Clock) {
 /// cubes no two of which fit in one legal product.
 pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube], clock: &Clock) -> usize {
     if let Some(t) = &s.table {
-        return crate::dense::lower_bound(t, clock);
+        return crate::dense::lower_bound(s, t, cover, clock);
     }
     let pair_edges = if s.adjacent_pairs {
         edges_within(s, clock)
