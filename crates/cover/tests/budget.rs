@@ -69,3 +69,59 @@ fn literal_budget_keeps_the_proven_count() {
     assert!(!sol.literals_optimal, "the literal phase had no time");
     assert!(sol.stats.stopped);
 }
+
+#[test]
+fn point_table_heuristic_is_valid_in_every_mode() {
+    // 14 variables, 30 % on, 10 % dc, with listed transitions of up to four changing
+    // variables (those the function refuses are dropped): the heuristic's covers pass
+    // the independent checker and their bounds lie between 1 and their size.
+    use stillpoint_cover::{CoverError, Function, MultiFunction, Transition};
+    let n = 14;
+    let (on, dc) = random(n, 30, 10, 7);
+    let mut x = 99u64;
+    let mut next = move || {
+        x = x
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        x >> 11
+    };
+    let mut ts: Vec<Transition> = (0..12)
+        .map(|_| {
+            let a = next() % (1 << n);
+            Transition {
+                start: a,
+                end: a ^ (next() % 15 + 1),
+            }
+        })
+        .filter(|t| dc.binary_search(&t.start).is_err() && dc.binary_search(&t.end).is_err())
+        .collect();
+    let vars = crate::common::vars(n);
+    let full = loop {
+        let f = Function::from_minterms(n, &on, &dc, ts.clone()).expect("function");
+        let mf = MultiFunction::single(vars.clone(), "f", f);
+        match minimize(&mf, &Config::default().effort(Effort::Fast)) {
+            Err(CoverError::FunctionHazard { transition, .. })
+            | Err(CoverError::NoHazardFreeCover { transition, .. }) => {
+                ts.retain(|t| *t != transition)
+            }
+            Err(e) => panic!("{e}"),
+            Ok(_) => break mf,
+        }
+    };
+    assert!(
+        !full.outputs[0].1.transitions().is_empty(),
+        "some transition kept"
+    );
+    let plain = single(n, &on, &dc, vec![]);
+    for (mf, mode) in [
+        (&plain, HazardMode::None),
+        (&plain, HazardMode::Static),
+        (&full, HazardMode::Full),
+    ] {
+        let fast =
+            minimize(mf, &Config::default().hazards(mode).effort(Effort::Fast)).expect("a cover");
+        verify::check(mf, &fast, mode).expect("the heuristic cover is valid");
+        assert!(fast.lower_bound >= 1 && fast.lower_bound <= fast.cube_count);
+        assert!(!fast.literals_optimal);
+    }
+}
