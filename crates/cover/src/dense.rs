@@ -327,8 +327,10 @@ impl<'a> Engine<'a> {
 
     /// Shrinks product `k` to the supercube of what only it holds (then its closure);
     /// drops it when it holds nothing alone.
-    fn reduce_one(&mut self, k: usize) {
-        let Some(c) = self.cubes[k] else { return };
+    fn reduce_one(&mut self, k: usize) -> bool {
+        let Some(c) = self.cubes[k] else {
+            return false;
+        };
         let n = self.n;
         let free = self.full & !c.care_bits();
         let pairs_on = !self.pairs.is_empty();
@@ -364,15 +366,16 @@ impl<'a> Engine<'a> {
                 join(&mut sc, r.cube);
             }
         }
-        self.paint(&c, false);
-        match sc {
-            None => self.cubes[k] = None,
-            Some(x) => {
-                let x = self.s.closure(&x);
-                self.paint(&x, true);
-                self.cubes[k] = Some(x);
-            }
+        let x = sc.map(|x| self.s.closure(&x));
+        if x == Some(c) {
+            return false;
         }
+        self.paint(&c, false);
+        if let Some(x) = x {
+            self.paint(&x, true);
+        }
+        self.cubes[k] = x;
+        true
     }
 
     /// Expands product `k` again (it is taken out while it grows).
@@ -418,17 +421,21 @@ pub(crate) fn cover(s: &OutputSpec, t: &Table, clock: &Clock) -> Option<Vec<Cube
             let c = e.cubes[k].unwrap_or_default();
             (c.literal_count(), k)
         });
+        // A product reduce left alone is still maximal: only the shrunk ones grow again.
+        let mut shrunk = vec![false; e.cubes.len()];
         for &k in &order {
             if clock.tick() {
                 break;
             }
-            e.reduce_one(k);
+            shrunk[k] = e.reduce_one(k);
         }
         for &k in order.iter().rev() {
             if clock.tick() {
                 break;
             }
-            e.expand_one(k);
+            if shrunk[k] {
+                e.expand_one(k);
+            }
         }
         e.irredundant(clock);
         e.compact();
