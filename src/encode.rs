@@ -422,7 +422,12 @@ pub fn encode_with(
             .filter(|r| r.next & bit != 0)
             .map(|r| r.cube)
             .collect();
-        let f = Function::from_cubes(nvars, on, ns_dc.clone(), listed_ns.clone())
+        let off: Vec<Cube> = regions
+            .iter()
+            .filter(|r| r.next & bit == 0)
+            .map(|r| r.cube)
+            .collect();
+        let f = Function::from_partition(nvars, on, ns_dc.clone(), off, listed_ns.clone())
             .map_err(|e| EncodeError::Cover(e.to_string()))?;
         outputs.push((format!("Y{}", i + 1), f));
     }
@@ -432,6 +437,11 @@ pub fn encode_with(
             .filter(|(_, v)| **v)
             .map(|(q, _)| Cube::minterm(nvars, *q))
             .collect();
+        let off: Vec<Cube> = vals
+            .iter()
+            .filter(|(_, v)| !**v)
+            .map(|(q, _)| Cube::minterm(nvars, *q))
+            .collect();
         let care: Vec<Cube> = vals.keys().map(|q| Cube::minterm(nvars, *q)).collect();
         let dc = complement(&care, nvars);
         let trs: Vec<Transition> = listed
@@ -439,7 +449,7 @@ pub fn encode_with(
             .filter(|(a, b)| vals.contains_key(a) && vals.contains_key(b))
             .map(|&(start, end)| Transition { start, end })
             .collect();
-        let f = Function::from_cubes(nvars, on, dc, trs)
+        let f = Function::from_partition(nvars, on, dc, off, trs)
             .map_err(|e| EncodeError::Cover(e.to_string()))?;
         outputs.push((table.output_names()[j].clone(), f));
     }

@@ -18,7 +18,7 @@ use stillpoint_assign::{assign, races, AssignConfig, AssignError, Assignment, Me
 use stillpoint_cover::{minimize, verify, Config, CoverError, Cube, Effort, HazardMode, Solution};
 use stillpoint_table::{
     collapse_chains, essential_hazards, reduce, ChangeMode, CollapseError, EssentialHazard,
-    FlowTable, ReduceConfig, Reduction, TableError,
+    FlowTable, ReduceConfig, Reduction, StateId, TableError,
 };
 
 /// Settings of [`synthesize`], built with chained setters.
@@ -68,8 +68,13 @@ impl SynthConfig {
         self.model = d;
         self
     }
-    /// Time budget of each exact search (reduction, assignment, covering).
-    /// [default: 60 s] [range: any]
+    /// Time budget of the whole run, shared by its exact searches: the state reduction
+    /// may use a tenth of it and the assignment two fifths (fixed shares of the budget,
+    /// so that the assignment's deterministic work allowance does not depend on how
+    /// long the reduction took), and the covering what is left, split evenly over the
+    /// codes still to be minimised (time a code leaves over goes to the next). Encoding and verification are polynomial
+    /// and not budgeted. Each search that its share stops returns its best answer with
+    /// a proven bound (see [`Design::warnings`]). [default: 60 s] [range: any]
     pub fn budget(mut self, b: Duration) -> Self {
         self.budget = b;
         self
@@ -332,6 +337,38 @@ pub fn verify_design(
     }
 }
 
+/// The budget of a whole run: each stage asks for a share of what is left.
+struct Deadline {
+    start: Instant,
+    budget: Duration,
+}
+
+impl Deadline {
+    fn new(start: Instant, budget: Duration) -> Deadline {
+        Deadline { start, budget }
+    }
+
+    /// What is left of the budget.
+    fn left(&self) -> Duration {
+        self.budget.saturating_sub(self.start.elapsed())
+    }
+
+    /// `num / den` of the whole budget.
+    fn part(&self, num: u32, den: u32) -> Duration {
+        self.budget * num / den.max(1)
+    }
+
+    /// `num / den` of what is left (all of it when `den <= num`).
+    fn share(&self, num: u32, den: u32) -> Duration {
+        let left = self.left();
+        if den <= num {
+            left
+        } else {
+            left * num / den
+        }
+    }
+}
+
 /// Synthesises a verified circuit from a flow table. See the [module doc](self).
 ///
 /// # Errors
@@ -359,9 +396,13 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     let mut stats = SynthStats::default();
     let mut warnings = Vec::new();
     let t0 = Instant::now();
+    let deadline = Deadline::new(t0, cfg.budget);
     let normal = collapse_chains(table)?;
     let (coded, reduction) = if cfg.reduce {
-        let r = reduce(&normal, &ReduceConfig::default().budget(cfg.budget))?;
+        let r = reduce(
+            &normal,
+            &ReduceConfig::default().budget(deadline.part(1, 10)),
+        )?;
         if !r.optimal {
             warnings.push(format!(
                 "state reduction stopped by its budget: {} rows, at least {} needed",
@@ -393,7 +434,7 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     };
     let acfg = AssignConfig::default()
         .method(cfg.method)
-        .budget(cfg.budget)
+        .budget(deadline.part(2, 5))
         .alternatives(alts)
         .output_separation(true);
     let assignment = assign(&coded, &acfg)?;
@@ -407,15 +448,23 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     stats.assign_time = t1.elapsed();
 
     let t2 = Instant::now();
-    let ccfg = Config::default()
-        .hazards(HazardMode::Full)
-        .effort(cfg.effort)
-        .budget(cfg.budget);
     let mut candidates = vec![assignment.codes.clone()];
     candidates.extend(assignment.alternatives.iter().cloned());
+    let ncand = candidates.len();
     let mut best: Option<(Assignment, Encoding, Solution)> = None;
     let mut first_err = None;
-    for codes in candidates {
+    for (i, codes) in candidates.into_iter().enumerate() {
+        if i > 0 && best.is_some() && deadline.left().is_zero() {
+            warnings.push(format!(
+                "{} of {ncand} alternative codes not minimised: the budget ran out",
+                ncand - i
+            ));
+            break;
+        }
+        let ccfg = Config::default()
+            .hazards(HazardMode::Full)
+            .effort(cfg.effort)
+            .budget(deadline.share(1, (ncand - i) as u32));
         stats.codes_tried += 1;
         let mut a = assignment.clone();
         a.codes = codes;
@@ -426,7 +475,26 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
                 continue;
             }
         };
-        let (enc, sol) = match minimize(&enc.functions, &ccfg) {
+        let first = match minimize(&enc.functions, &ccfg) {
+            // The share ran out before any valid cover of some function: a design slightly
+            // late beats none, so the heuristic gets one more go with a grace period, and
+            // the report says so.
+            Err(CoverError::BudgetExhausted { .. }) if best.is_none() => {
+                let grace = (cfg.budget / 4).max(Duration::from_secs(1));
+                let fast = ccfg.clone().effort(Effort::Fast).budget(grace);
+                let r = minimize(&enc.functions, &fast);
+                if r.is_ok() {
+                    warnings.push(format!(
+                        "the covering's share of the budget ran out before a valid cover was \
+                         built; the heuristic cover was run with a grace of {:.1} s",
+                        grace.as_secs_f64()
+                    ));
+                }
+                r
+            }
+            r => r,
+        };
+        let (enc, sol) = match first {
             Ok(s) => (enc, s),
             Err(e) if a.multi_step => {
                 // retry with the steps of each move listed separately
@@ -485,12 +553,26 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     );
     stats.verify_time = t3.elapsed();
 
+    // One line per row: the entries no input change of the change mode reaches.
+    let mut by_state: Vec<(StateId, Vec<&str>)> = Vec::new();
     for &(s, c) in &encoding.unreached {
+        match by_state.last_mut() {
+            Some((last, cols)) if *last == s => cols.push(coded.column_label(c)),
+            _ => by_state.push((s, vec![coded.column_label(c)])),
+        }
+    }
+    for (s, cols) in by_state {
         warnings.push(format!(
-            "entry of state {} in column {} is not reached by any {} input change from a stable \
-             state; it is encoded all the same",
+            "state {}: {} {} {} not reached by any {} input change from a stable state; \
+             encoded all the same",
             coded.state_name(s),
-            coded.column_label(c),
+            if cols.len() == 1 {
+                "the entry in column"
+            } else {
+                "the entries in columns"
+            },
+            cols.join(", "),
+            if cols.len() == 1 { "is" } else { "are" },
             if cfg.changes == ChangeMode::Single {
                 "single"
             } else {

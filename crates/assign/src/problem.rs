@@ -66,19 +66,30 @@ impl Problem {
     }
 
     /// Adds, for every column, the separations that keep the outputs of the table free of
-    /// function hazards while the state moves: when two entries `s -> t` and `u -> t` of a
-    /// column share their destination, their sub-cubes may overlap as far as the next state
-    /// is concerned, but if `u`'s entry specifies an output bit that differs from the value
-    /// the move `s -> t` must show (the destination's, else `s`'s own), the code of `u`
-    /// must lie outside `[c_s, c_t]`. Each such need is added as a pseudo column
-    /// `[(s, t), (u, u)]`, which Tracey's rule turns into the dichotomy `{s, t} | {u}`.
+    /// hazards while the state moves. Tracey's rule lets the sub-cubes of two entries
+    /// `s -> t` and `u -> t` of a column overlap (they share the destination), but the code
+    /// of `u` must lie outside `[c_s, c_t]` when the point of `u` in that column would
+    /// spoil the output the move `s -> t` shows:
+    ///
+    /// - the move shows a steady value on an output (its start, the unstable entry of `s`,
+    ///   and the destination agree, or one of them is free) and the entry of `u` specifies
+    ///   the other value there (a function hazard otherwise);
+    /// - the move changes an output (the entry of `s` specifies the old value, the
+    ///   destination the new one): every product that meets the sub-cube must then hold
+    ///   its 1-end (Nowick & Dill), and the product that carries `u`'s own input change
+    ///   through its point would have to reach over the other column onto the 1-end, in
+    ///   general onto points where the output is 0. So any `u` whose point carries a value
+    ///   (an entry to `t`, or a specified output) is kept out of the sub-cube.
+    ///
+    /// Rows whose entry in the column is unspecified count when they specify an output
+    /// there. Each need is added as a pseudo column `[(s, t), (u, u)]`, which Tracey's rule
+    /// turns into the dichotomy `{s, t} | {u}`.
     pub(crate) fn add_output_separations(&mut self, table: &FlowTable) {
         use stillpoint_table::OutBit;
-        let differ = |a: OutBit, b: OutBit| {
-            matches!(
-                (a, b),
-                (OutBit::Zero, OutBit::One) | (OutBit::One, OutBit::Zero)
-            )
+        let spec = |b: OutBit| match b {
+            OutBit::Zero => Some(false),
+            OutBit::One => Some(true),
+            OutBit::Free => None,
         };
         let mut extra = Vec::new();
         for c in table.columns() {
@@ -88,13 +99,24 @@ impl Problem {
                 };
                 let (os, ot) = (table.outputs(s, c), table.outputs(t, c));
                 for u in table.states() {
-                    if u == s || u == t || table.next(u, c) != Some(t) {
+                    if u == s || u == t {
                         continue;
+                    }
+                    let un = table.next(u, c);
+                    if un.is_some() && un != Some(t) {
+                        continue; // a different destination: Tracey's rule separates them
                     }
                     let ou = table.outputs(u, c);
                     let clash = (0..os.len()).any(|j| {
-                        let shown = if ot[j] == OutBit::Free { os[j] } else { ot[j] };
-                        differ(shown, ou[j])
+                        let (vs, vt) = (spec(os[j]), spec(ot[j]));
+                        let vu = spec(ou[j]);
+                        match (vs, vt) {
+                            (Some(a), Some(b)) if a != b => vu.is_some() || un.is_some(),
+                            _ => match (vt.or(vs), vu) {
+                                (Some(shown), Some(v)) => shown != v,
+                                _ => false,
+                            },
+                        }
                     });
                     if clash {
                         let (s, t, u) = (s.index() as u32, t.index() as u32, u.index() as u32);

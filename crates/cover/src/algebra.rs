@@ -236,26 +236,55 @@ pub fn cube_minus(a: &Cube, b: &Cube) -> Vec<Cube> {
 /// The points of `cover` outside every cube of `minus` (a cover, single-cube
 /// containment applied).
 pub fn sharp(cover: &[Cube], minus: &[Cube]) -> Vec<Cube> {
-    sharp_within(cover, minus, &Clock::unbounded()).unwrap_or_default()
+    let mut start = cover.to_vec();
+    scc(&mut start);
+    sharp_within(&start, minus, &Clock::unbounded()).unwrap_or_default()
 }
 
 /// [`sharp`] under a deadline: `None` when it passed first.
+///
+/// Single-cube containment is kept up incrementally: when `cover` is containment-free,
+/// so is the result. Only the pieces split off by a subtracted cube are checked (a cube
+/// that no subtracted cube touched lay inside no other cube before and still does not,
+/// and no old cube can lie inside a piece smaller than its parent), so a large cover
+/// that the subtracted cubes barely touch costs a scan per subtracted cube, not a
+/// quadratic pass.
 pub(crate) fn sharp_within(cover: &[Cube], minus: &[Cube], clock: &Clock) -> Option<Vec<Cube>> {
     let mut cur: Vec<Cube> = cover.to_vec();
     for b in minus {
         if clock.tick() {
             return None;
         }
-        let mut next = Vec::with_capacity(cur.len());
+        if !cur.iter().any(|a| a.intersects(b)) {
+            continue;
+        }
+        let mut next = Vec::with_capacity(cur.len() + 8);
+        let mut fresh = Vec::new();
         for a in &cur {
-            next.extend(cube_minus(a, b));
+            if a.intersects(b) {
+                for piece in cube_minus(a, b) {
+                    fresh.push(next.len());
+                    next.push(piece);
+                }
+            } else {
+                next.push(*a);
+            }
         }
+        let mut keep = vec![true; next.len()];
+        for &i in &fresh {
+            let p = next[i];
+            if next
+                .iter()
+                .enumerate()
+                .any(|(j, d)| j != i && keep[j] && d.contains(&p))
+            {
+                keep[i] = false;
+            }
+        }
+        let mut it = keep.iter();
+        next.retain(|_| *it.next().unwrap_or(&true));
         cur = next;
-        if cur.len() > 64 {
-            scc_within(&mut cur, clock);
-        }
     }
-    scc_within(&mut cur, clock);
     if clock.expired() {
         None
     } else {

@@ -37,14 +37,17 @@ impl Transition {
 /// (each a cover), the off-set being the rest, plus the transitions that must be free
 /// of logic hazards.
 ///
-/// Built only through [`Function::from_minterms`] or [`Function::from_cubes`], which
-/// check that the sets are disjoint, everything is in range, and every transition joins
+/// Built only through [`Function::from_minterms`], [`Function::from_cubes`] or
+/// [`Function::from_partition`], which check that the sets are disjoint, everything is in range, and every transition joins
 /// two specified points.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Function {
     nvars: usize,
     on: Vec<Cube>,
     dc: Vec<Cube>,
+    /// The off-set when the caller gave it ([`Function::from_partition`]); else it is
+    /// computed by complementation when asked for.
+    off: Option<Vec<Cube>>,
     transitions: Vec<Transition>,
 }
 
@@ -84,7 +87,7 @@ impl Function {
         }
         let on_c = on_sorted.iter().map(|&m| Cube::minterm(nvars, m)).collect();
         let dc_c = dc_sorted.iter().map(|&m| Cube::minterm(nvars, m)).collect();
-        Function::build(nvars, on_c, dc_c, transitions)
+        Function::build(nvars, on_c, dc_c, None, transitions)
     }
 
     /// A function from covers of its on-set and don't-care set (they may overlap
@@ -116,19 +119,88 @@ impl Function {
         let mut dc = dc;
         scc(&mut on);
         scc(&mut dc);
-        Function::build(nvars, on, dc, transitions)
+        Function::build(nvars, on, dc, None, transitions)
+    }
+
+    /// A function from covers of all three sets, which must partition the space: pairwise
+    /// disjoint, and together every point. A caller that knows its off-set (an encoder of
+    /// a coded flow table knows every specified point's value, and the don't-cares are
+    /// the rest) saves the complementation of a large don't-care cover, and the sets are
+    /// taken as given (no single-cube containment pass).
+    ///
+    /// ```
+    /// use stillpoint_cover::{Cube, Function};
+    /// let c = |s: &str| Cube::parse(s).unwrap();
+    /// // on a.b, off a'.b, the rest (b') free
+    /// let f = Function::from_partition(2, vec![c("11")], vec![c("-0")], vec![c("01")], vec![])?;
+    /// assert_eq!(f.value(0b11), Some(true));
+    /// assert_eq!(f.value(0b01), Some(false));
+    /// assert_eq!(f.value(0b10), None);
+    /// assert!(Function::from_partition(2, vec![c("11")], vec![], vec![c("01")], vec![]).is_err());
+    /// # Ok::<(), Box<dyn std::error::Error>>(())
+    /// ```
+    ///
+    /// # Errors
+    /// Too many variables, a cube out of range, two sets that meet (the point is named),
+    /// points in none of the sets, or a bad transition.
+    pub fn from_partition(
+        nvars: usize,
+        on: Vec<Cube>,
+        dc: Vec<Cube>,
+        off: Vec<Cube>,
+        transitions: Vec<Transition>,
+    ) -> Result<Function, CoverError> {
+        check_nvars(nvars)?;
+        for c in on.iter().chain(&dc).chain(&off) {
+            if c.care_bits() & !mask(nvars) != 0 {
+                return Err(CoverError::CubeOutOfRange { nvars });
+            }
+        }
+        let meet = |xs: &[Cube], ys: &[Cube]| {
+            xs.iter()
+                .find_map(|a| ys.iter().find_map(|b| crate::algebra::witness(a, b, nvars)))
+        };
+        if let Some(w) = meet(&on, &dc) {
+            return Err(CoverError::OnDcOverlap {
+                point: w.to_string(nvars),
+                minterm: w.as_minterm(nvars),
+            });
+        }
+        for (set, other) in [("on-set", &on), ("don't-care set", &dc)] {
+            if let Some(w) = meet(&off, other) {
+                return Err(CoverError::BadCube {
+                    text: w.to_string(nvars),
+                    reason: format!("the point is in both the off-set and the {set}"),
+                });
+            }
+        }
+        let mut all: Vec<Cube> = Vec::with_capacity(on.len() + dc.len() + off.len());
+        all.extend_from_slice(&on);
+        all.extend_from_slice(&dc);
+        all.extend_from_slice(&off);
+        if let Some(w) = complement(&all, nvars).first() {
+            let w = crate::algebra::witness(w, w, nvars).unwrap_or(*w);
+            return Err(CoverError::BadCube {
+                text: w.to_string(nvars),
+                reason: "the point is in none of the on-set, the don't-care set and the off-set"
+                    .to_string(),
+            });
+        }
+        Function::build(nvars, on, dc, Some(off), transitions)
     }
 
     fn build(
         nvars: usize,
         on: Vec<Cube>,
         dc: Vec<Cube>,
+        off: Option<Vec<Cube>>,
         transitions: Vec<Transition>,
     ) -> Result<Function, CoverError> {
         let f = Function {
             nvars,
             on,
             dc,
+            off,
             transitions: Vec::new(),
         };
         for t in &transitions {
@@ -175,11 +247,20 @@ impl Function {
         &self.dc
     }
 
-    /// The off-set as a cover (computed by complementation).
+    /// The off-set as a cover (as given to [`Function::from_partition`], else computed
+    /// by complementation).
     pub fn off_cubes(&self) -> Vec<Cube> {
+        if let Some(off) = &self.off {
+            return off.clone();
+        }
         let mut all = self.on.clone();
         all.extend_from_slice(&self.dc);
         complement(&all, self.nvars)
+    }
+
+    /// The off-set when it was given ([`Function::from_partition`]).
+    pub fn given_off_cubes(&self) -> Option<&[Cube]> {
+        self.off.as_deref()
     }
 
     /// The value at minterm `m`: `Some(true)` on, `Some(false)` off, `None` don't care.
@@ -187,6 +268,12 @@ impl Function {
         let p = Cube::minterm(self.nvars, m);
         if self.on.iter().any(|c| c.contains(&p)) {
             Some(true)
+        } else if let Some(off) = &self.off {
+            if off.iter().any(|c| c.contains(&p)) {
+                Some(false)
+            } else {
+                None
+            }
         } else if self.dc.iter().any(|c| c.contains(&p)) {
             None
         } else {

@@ -122,12 +122,14 @@ pub(crate) fn prepare_within(
     let on: Vec<Cube> = f.on_cubes().to_vec();
     let dc: Vec<Cube> = f.dc_cubes().to_vec();
     // Up to 20 variables the sets go into a point table and the off-set is read from
-    // it; wider functions take the complement by unate recursion.
+    // it; wider functions take the off-set as given (Function::from_partition), else
+    // the complement by unate recursion.
     let mut table = Table::build(n, &on, &dc);
-    let off = match &table {
+    let off = match (&table, f.given_off_cubes()) {
         // The table answers every off-set question; no list is kept.
-        Some(_) => Vec::new(),
-        None => {
+        (Some(_), _) => Vec::new(),
+        (None, Some(off)) => off.to_vec(),
+        (None, None) => {
             let mut all = on.clone();
             all.extend_from_slice(&dc);
             let Some(off) = complement_within(&all, n, clock) else {
