@@ -31,6 +31,7 @@ pub struct SynthConfig {
     budget: Duration,
     alternatives: usize,
     effort: Effort,
+    node_limit: Option<u64>,
 }
 
 impl Default for SynthConfig {
@@ -43,6 +44,7 @@ impl Default for SynthConfig {
             budget: Duration::from_secs(60),
             alternatives: 4,
             effort: Effort::Exact,
+            node_limit: None,
         }
     }
 }
@@ -83,6 +85,14 @@ impl SynthConfig {
     /// tables of more than 24 rows use 1). [default: 4] [range: >= 1]
     pub fn alternatives(mut self, n: usize) -> Self {
         self.alternatives = n.max(1);
+        self
+    }
+    /// Also bound every exact search by nodes (per phase of the reduction, per width of
+    /// the assignment, per covering problem): with a budget far above what the nodes
+    /// take, the result no longer depends on the machine's speed or load (the quality
+    /// baseline uses this). [default: none] [range: >= 1]
+    pub fn node_limit(mut self, nodes: u64) -> Self {
+        self.node_limit = Some(nodes.max(1));
         self
     }
     /// Exact or heuristic covering. [default: `Exact`]
@@ -399,10 +409,11 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     let deadline = Deadline::new(t0, cfg.budget);
     let normal = collapse_chains(table)?;
     let (coded, reduction) = if cfg.reduce {
-        let r = reduce(
-            &normal,
-            &ReduceConfig::default().budget(deadline.part(1, 10)),
-        )?;
+        let mut rcfg = ReduceConfig::default().budget(deadline.part(1, 10));
+        if let Some(n) = cfg.node_limit {
+            rcfg = rcfg.node_limit(n);
+        }
+        let r = reduce(&normal, &rcfg)?;
         if !r.optimal {
             warnings.push(format!(
                 "state reduction stopped by its budget: {} rows, at least {} needed",
@@ -432,11 +443,14 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
     } else {
         1
     };
-    let acfg = AssignConfig::default()
+    let mut acfg = AssignConfig::default()
         .method(cfg.method)
         .budget(deadline.part(2, 5))
         .alternatives(alts)
         .output_separation(true);
+    if let Some(n) = cfg.node_limit {
+        acfg = acfg.node_limit(n);
+    }
     let assignment = assign(&coded, &acfg)?;
     if assignment.optimal == Some(false) {
         warnings.push(format!(
@@ -461,10 +475,13 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
             ));
             break;
         }
-        let ccfg = Config::default()
+        let mut ccfg = Config::default()
             .hazards(HazardMode::Full)
             .effort(cfg.effort)
             .budget(deadline.share(1, (ncand - i) as u32));
+        if let Some(n) = cfg.node_limit {
+            ccfg = ccfg.node_limit(n);
+        }
         stats.codes_tried += 1;
         let mut a = assignment.clone();
         a.codes = codes;

@@ -3,7 +3,9 @@
 //! For every table of `tests/data/` (not `bad/`) and a fixed set of generated tables:
 //! rows after reduction (and whether proven minimum), the width each assignment method
 //! reaches and whether it is proven minimum; for a fixed set of generated functions: cube
-//! and literal counts per hazard mode and effort. Every result is first rechecked by the
+//! and literal counts per hazard mode and effort; for the corpus tables of at most 16
+//! rows, the demos and a few generated tables: the whole pipeline's design (rows, width,
+//! products, literals, verified). Every result is first rechecked by the
 //! stage's independent checker. The test fails when a figure gets worse than the baseline
 //! (more rows, variables, cubes or literals; optimal -> not optimal; an answer -> an
 //! error); improvements pass with a note asking to bless the file:
@@ -21,6 +23,7 @@ mod common;
 use serde_json::{json, Map, Value};
 use std::path::{Path, PathBuf};
 use std::time::Duration;
+use stillpoint::synth::{synthesize, SynthConfig};
 use stillpoint_assign::{assign, one_hot, separation, AssignConfig, Method};
 use stillpoint_cover::{minimize, verify, Config, Effort, HazardMode, MultiFunction};
 use stillpoint_table::{parse_json, parse_text, reduce, FlowTable, ReduceConfig};
@@ -45,6 +48,13 @@ const TABLES: [(usize, usize, u64); 6] = [
     (16, 16, 0),
     (24, 16, 0),
 ];
+
+/// Generated tables for the whole pipeline: (rows, columns, salt).
+const DESIGNS: [(usize, usize, u64); 5] =
+    [(8, 4, 0), (12, 4, 1), (16, 4, 0), (24, 4, 0), (8, 16, 0)];
+/// Time budget of a whole synthesis (its shares drive the assignment's deterministic SAT
+/// allowance; the node limit bounds the rest).
+const SYNTH_BUDGET: Duration = Duration::from_secs(20);
 
 /// Generated dense functions (30 % on, 10 % don't-care): (variables, salt).
 const FUNCTIONS: [(usize, u64); 4] = [(5, 0), (6, 1), (8, 0), (9, 2)];
@@ -101,6 +111,29 @@ fn error(e: impl std::fmt::Display) -> Value {
 /// `ceil(log2 n)`, at least 1.
 fn log2(n: usize) -> usize {
     (n.max(2) - 1).ilog2() as usize + 1
+}
+
+/// The figures of the design the default pipeline makes of one table (node-limited).
+fn design_figures(t: &FlowTable) -> Value {
+    let cfg = SynthConfig::default()
+        .budget(SYNTH_BUDGET)
+        .node_limit(COVER_NODES);
+    match synthesize(t, &cfg) {
+        Ok(d) => {
+            // A search stopped by a budget (not a node limit) may vary from run to run.
+            let limited = d.warnings.iter().any(|w| w.contains("not proven"));
+            json!({
+                "states": t.num_states(),
+                "rows": d.table.num_states(),
+                "width": d.assignment.codes.width(),
+                "products": d.solution.cube_count,
+                "literals": d.solution.literal_count,
+                "verified": d.verification.ok,
+                "budget_limited": limited,
+            })
+        }
+        Err(e) => error(e),
+    }
 }
 
 /// The figures of one table: reduction, then every assignment method on the reduced table.
@@ -241,6 +274,33 @@ fn figures() -> Value {
         );
         tables.insert(format!("random-{rows}x{cols}-{salt}"), v);
     }
+    let mut designs = Map::new();
+    let mut design_tables: Vec<(String, FlowTable)> = Vec::new();
+    for p in corpus() {
+        if let Ok(t) = load(&p) {
+            if t.num_states() <= 16 {
+                let name = p.file_name().and_then(|n| n.to_str()).unwrap_or("?");
+                design_tables.push((name.to_string(), t));
+            }
+        }
+    }
+    for f in ["interlock", "catcher", "arbiter", "handshake"] {
+        if let Ok(t) = load(&root().join(format!("demos/{f}.flow"))) {
+            design_tables.push((format!("demo-{f}"), t));
+        }
+    }
+    for (rows, cols, salt) in DESIGNS {
+        let t = common::table_seeded(rows, cols, salt);
+        design_tables.push((format!("random-{rows}x{cols}-{salt}"), t));
+    }
+    for (name, t) in design_tables {
+        let started = std::time::Instant::now();
+        designs.insert(name.clone(), design_figures(&t));
+        eprintln!(
+            "qor: design {name} in {:.2} s",
+            started.elapsed().as_secs_f64()
+        );
+    }
     let mut functions = Map::new();
     for (n, salt) in FUNCTIONS {
         let started = std::time::Instant::now();
@@ -264,6 +324,7 @@ fn figures() -> Value {
         "about": "quality of results; regenerate with STILLPOINT_QOR_BLESS=1 cargo test --test integration qor",
         "tables": tables,
         "functions": functions,
+        "designs": designs,
     })
 }
 
@@ -297,7 +358,19 @@ fn compare(
                 (None, None) => {}
             }
             if b.get("budget_limited") == Some(&Value::Bool(true)) {
-                return; // not proven in the baseline: the figure may vary with speed
+                // not proven in the baseline: the figures may vary with speed, but a
+                // verified design must stay verified
+                if let (Some(bv), Some(nv)) = (b.get("verified"), n.get("verified")) {
+                    compare_leaf(
+                        &format!("{path}/verified"),
+                        "verified",
+                        bv,
+                        nv,
+                        worse,
+                        better,
+                    );
+                }
+                return;
             }
             for k in IDENTITY {
                 if b.get(k) != n.get(k) {
@@ -337,6 +410,12 @@ fn compare_leaf(
 ) {
     if b.is_object() {
         compare(p, b, n, worse, better);
+    } else if k == "verified" {
+        match (b.as_bool(), n.as_bool()) {
+            (Some(true), Some(false)) => worse.push(format!("{p}: was verified, no longer")),
+            (Some(false), Some(true)) => better.push(format!("{p}: now verified")),
+            _ => {}
+        }
     } else if k == "optimal" {
         match (b.as_bool(), n.as_bool()) {
             (Some(true), Some(false)) => worse.push(format!("{p}: was proven optimal, no longer")),
