@@ -38,6 +38,7 @@
 //! both its end points are specified for that function.
 
 use crate::sim::TransitionCheck;
+use rayon::prelude::*;
 use serde::Serialize;
 use std::collections::{BTreeMap, BTreeSet};
 use stillpoint_assign::{Assignment, Codes};
@@ -414,45 +415,56 @@ pub fn encode_with(
         .collect();
     let ns_care: Vec<Cube> = regions.iter().map(|r| r.cube).collect();
     let ns_dc = complement(&ns_care, nvars);
-    let mut outputs = Vec::with_capacity(k + m);
-    for i in 0..k {
-        let bit = 1u64 << (k - 1 - i);
-        let on: Vec<Cube> = regions
-            .iter()
-            .filter(|r| r.next & bit != 0)
-            .map(|r| r.cube)
-            .collect();
-        let off: Vec<Cube> = regions
-            .iter()
-            .filter(|r| r.next & bit == 0)
-            .map(|r| r.cube)
-            .collect();
-        let f = Function::from_partition(nvars, on, ns_dc.clone(), off, listed_ns.clone())
-            .map_err(|e| EncodeError::Cover(e.to_string()))?;
-        outputs.push((format!("Y{}", i + 1), f));
-    }
-    for (j, vals) in out.iter().enumerate() {
-        let on: Vec<Cube> = vals
-            .iter()
-            .filter(|(_, v)| **v)
-            .map(|(q, _)| Cube::minterm(nvars, *q))
-            .collect();
-        let off: Vec<Cube> = vals
-            .iter()
-            .filter(|(_, v)| !**v)
-            .map(|(q, _)| Cube::minterm(nvars, *q))
-            .collect();
-        let care: Vec<Cube> = vals.keys().map(|q| Cube::minterm(nvars, *q)).collect();
-        let dc = complement(&care, nvars);
-        let trs: Vec<Transition> = listed
-            .iter()
-            .filter(|(a, b)| vals.contains_key(a) && vals.contains_key(b))
-            .map(|&(start, end)| Transition { start, end })
-            .collect();
-        let f = Function::from_partition(nvars, on, dc, off, trs)
-            .map_err(|e| EncodeError::Cover(e.to_string()))?;
-        outputs.push((table.output_names()[j].clone(), f));
-    }
+    // The functions are independent: built in parallel (the order of the list is fixed).
+    let next_state: Vec<Result<(String, Function), EncodeError>> = (0..k)
+        .into_par_iter()
+        .map(|i| {
+            let bit = 1u64 << (k - 1 - i);
+            let on: Vec<Cube> = regions
+                .iter()
+                .filter(|r| r.next & bit != 0)
+                .map(|r| r.cube)
+                .collect();
+            let off: Vec<Cube> = regions
+                .iter()
+                .filter(|r| r.next & bit == 0)
+                .map(|r| r.cube)
+                .collect();
+            let f = Function::from_partition(nvars, on, ns_dc.clone(), off, listed_ns.clone())
+                .map_err(|e| EncodeError::Cover(e.to_string()))?;
+            Ok((format!("Y{}", i + 1), f))
+        })
+        .collect();
+    let output_fns: Vec<Result<(String, Function), EncodeError>> = out
+        .par_iter()
+        .enumerate()
+        .map(|(j, vals)| {
+            let on: Vec<Cube> = vals
+                .iter()
+                .filter(|(_, v)| **v)
+                .map(|(q, _)| Cube::minterm(nvars, *q))
+                .collect();
+            let off: Vec<Cube> = vals
+                .iter()
+                .filter(|(_, v)| !**v)
+                .map(|(q, _)| Cube::minterm(nvars, *q))
+                .collect();
+            let care: Vec<Cube> = vals.keys().map(|q| Cube::minterm(nvars, *q)).collect();
+            let dc = complement(&care, nvars);
+            let trs: Vec<Transition> = listed
+                .iter()
+                .filter(|(a, b)| vals.contains_key(a) && vals.contains_key(b))
+                .map(|&(start, end)| Transition { start, end })
+                .collect();
+            let f = Function::from_partition(nvars, on, dc, off, trs)
+                .map_err(|e| EncodeError::Cover(e.to_string()))?;
+            Ok((table.output_names()[j].clone(), f))
+        })
+        .collect();
+    let outputs = next_state
+        .into_iter()
+        .chain(output_fns)
+        .collect::<Result<Vec<_>, _>>()?;
     Ok(Encoding {
         functions: MultiFunction {
             vars: support.clone(),

@@ -291,25 +291,44 @@ pub fn verify_design(
     net: &Network,
     model: DelayModel,
 ) -> Verification {
-    let cover_violations: Vec<String> = match verify::check(&enc.functions, sol, HazardMode::Full) {
-        Ok(()) => Vec::new(),
-        Err(v) => v
-            .into_iter()
-            .map(|v| format!("{}: {}", v.output, v.message))
-            .collect(),
-    };
-    let mut races = if assignment.multi_step {
-        0
-    } else {
-        races::analyze(table, &assignment.codes)
-            .map(|r| r.critical.len())
-            .unwrap_or(0)
-    };
+    use rayon::prelude::*;
+    // The three checks are independent, and so is each simulated transition: they run in
+    // parallel, and the results are gathered in the transitions' order.
+    let ((cover_violations, critical), simulated) = rayon::join(
+        || {
+            rayon::join(
+                || match verify::check(&enc.functions, sol, HazardMode::Full) {
+                    Ok(()) => Vec::new(),
+                    Err(v) => v
+                        .into_iter()
+                        .map(|v| format!("{}: {}", v.output, v.message))
+                        .collect::<Vec<String>>(),
+                },
+                || {
+                    if assignment.multi_step {
+                        0
+                    } else {
+                        races::analyze(table, &assignment.codes)
+                            .map(|r| r.critical.len())
+                            .unwrap_or(0)
+                    }
+                },
+            )
+        },
+        || {
+            enc.transitions
+                .par_iter()
+                .map(|t| {
+                    let check = enc.check_of(table, &assignment.codes, t);
+                    (t, check_transition(net, &check, model))
+                })
+                .collect::<Vec<_>>()
+        },
+    );
+    let mut races = critical;
     let mut hazards = cover_violations.len();
     let mut failures = Vec::new();
-    for t in &enc.transitions {
-        let check = enc.check_of(table, &assignment.codes, t);
-        let problems = check_transition(net, &check, model);
+    for (t, problems) in simulated {
         if problems.is_empty() {
             continue;
         }

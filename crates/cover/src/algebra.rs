@@ -243,46 +243,45 @@ pub fn sharp(cover: &[Cube], minus: &[Cube]) -> Vec<Cube> {
 
 /// [`sharp`] under a deadline: `None` when it passed first.
 ///
-/// Single-cube containment is kept up incrementally: when `cover` is containment-free,
-/// so is the result. Only the pieces split off by a subtracted cube are checked (a cube
-/// that no subtracted cube touched lay inside no other cube before and still does not,
-/// and no old cube can lie inside a piece smaller than its parent), so a large cover
-/// that the subtracted cubes barely touch costs a scan per subtracted cube, not a
-/// quadratic pass.
+/// Containment is kept up piece by piece instead of by a pass over the whole list: a
+/// piece split off a cube `a` is dropped when it lies inside another cube that meets
+/// `a` (only those can hold it) or inside a piece kept before it. A cube that no
+/// subtracted cube touched is kept as it is, so a containment-free `cover` gives a
+/// containment-free result, and a large cover that the subtracted cubes barely touch
+/// costs a scan per subtracted cube, not a quadratic pass.
 pub(crate) fn sharp_within(cover: &[Cube], minus: &[Cube], clock: &Clock) -> Option<Vec<Cube>> {
     let mut cur: Vec<Cube> = cover.to_vec();
+    let mut hit: Vec<bool> = Vec::new();
     for b in minus {
         if clock.tick() {
             return None;
         }
-        if !cur.iter().any(|a| a.intersects(b)) {
+        hit.clear();
+        hit.extend(cur.iter().map(|a| a.intersects(b)));
+        if !hit.iter().any(|&h| h) {
             continue;
         }
-        let mut next = Vec::with_capacity(cur.len() + 8);
-        let mut fresh = Vec::new();
-        for a in &cur {
-            if a.intersects(b) {
-                for piece in cube_minus(a, b) {
-                    fresh.push(next.len());
+        let mut next: Vec<Cube> = cur
+            .iter()
+            .zip(&hit)
+            .filter(|&(_, &h)| !h)
+            .map(|(a, _)| *a)
+            .collect();
+        let untouched = next.len();
+        for (a, _) in cur.iter().zip(&hit).filter(|&(_, &h)| h) {
+            let near: Vec<Cube> = next[..untouched]
+                .iter()
+                .filter(|d| d.intersects(a))
+                .copied()
+                .collect();
+            for piece in cube_minus(a, b) {
+                let inside = near.iter().any(|d| d.contains(&piece))
+                    || next[untouched..].iter().any(|d| d.contains(&piece));
+                if !inside {
                     next.push(piece);
                 }
-            } else {
-                next.push(*a);
             }
         }
-        let mut keep = vec![true; next.len()];
-        for &i in &fresh {
-            let p = next[i];
-            if next
-                .iter()
-                .enumerate()
-                .any(|(j, d)| j != i && keep[j] && d.contains(&p))
-            {
-                keep[i] = false;
-            }
-        }
-        let mut it = keep.iter();
-        next.retain(|_| *it.next().unwrap_or(&true));
         cur = next;
     }
     if clock.expired() {

@@ -186,7 +186,20 @@ fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: Option<&[Vec<Cube>]>, c
             return;
         }
         let c = f[i];
-        let mut removable = tautology(&rest_cofactor(f, i, &s.dc, &c));
+        let mut removable = if on_side(s) {
+            // c lies in on + dc, so it is redundant when its on-set points are held
+            on_in(s, &c).iter().all(|p| {
+                let holders: Vec<Cube> = f
+                    .iter()
+                    .enumerate()
+                    .filter(|&(k, d)| k != i && d.intersects(p))
+                    .map(|(_, d)| *d)
+                    .collect();
+                covers_cube(&holders, p)
+            })
+        } else {
+            tautology(&rest_cofactor(f, i, &s.dc, &c))
+        };
         let others = || -> Vec<Cube> {
             f.iter()
                 .enumerate()
@@ -281,6 +294,42 @@ fn rest_cofactor(f: &[Cube], skip: usize, dc: &[Cube], c: &Cube) -> Vec<Cube> {
         .collect()
 }
 
+/// Whether the on-set is the smaller side: then questions about "the rest plus the
+/// don't-cares" are asked of the on-set points instead (the sets partition the space
+/// and every product lies in on + dc, so a product's points outside the don't-cares
+/// are its on-set points). A function with a fragmented don't-care set, as an encoded
+/// flow table's next-state functions have, is handled at the cost of its on-set.
+fn on_side(s: &OutputSpec) -> bool {
+    s.dc.len() > 2 * s.on.len() + 64
+}
+
+/// The on-set points of `c`, as cubes.
+fn on_in(s: &OutputSpec, c: &Cube) -> Vec<Cube> {
+    s.on.iter().filter_map(|o| o.intersection(c)).collect()
+}
+
+/// The points of `c` held by no other cube of `f` and no don't-care, as cubes, from the
+/// on-set side (see [`on_side`]): each on-set piece of `c` minus the other products that
+/// meet it (most pieces lie inside one of them and cost a scan).
+fn only_in_on(s: &OutputSpec, f: &[Cube], skip: usize, c: &Cube) -> Vec<Cube> {
+    let mut out = Vec::new();
+    let mut near: Vec<Cube> = Vec::new();
+    for p in s.on.iter().filter_map(|o| o.intersection(c)) {
+        near.clear();
+        near.extend(
+            f.iter()
+                .enumerate()
+                .filter(|&(k, d)| k != skip && d.intersects(&p))
+                .map(|(_, d)| *d),
+        );
+        if near.iter().any(|d| d.contains(&p)) {
+            continue;
+        }
+        out.extend(sharp_within(&[p], &near, &Clock::unbounded()).unwrap_or_default());
+    }
+    out
+}
+
 /// The points of `c` held by no other cube of `f` and no don't-care, as cubes.
 fn only_in(f: &[Cube], skip: usize, dc: &[Cube], c: &Cube, nvars: usize) -> Vec<Cube> {
     let cof = rest_cofactor(f, skip, dc, c);
@@ -297,7 +346,11 @@ fn reduce(s: &OutputSpec, f: &mut [Cube], clock: &Clock) {
             return;
         }
         let c = f[i];
-        let mut pieces = only_in(f, i, &s.dc, &c, s.nvars);
+        let mut pieces = if on_side(s) {
+            only_in_on(s, f, i, &c)
+        } else {
+            only_in(f, i, &s.dc, &c, s.nvars)
+        };
         for r in &s.required {
             if c.contains(&r.cube)
                 && !f
@@ -388,7 +441,11 @@ pub(crate) fn lower_bound(s: &OutputSpec, cover: &[Cube], clock: &Clock) -> usiz
         if clock.tick() {
             break;
         }
-        let only = only_in(cover, i, &s.dc, c, s.nvars);
+        let only = if on_side(s) {
+            only_in_on(s, cover, i, c)
+        } else {
+            only_in(cover, i, &s.dc, c, s.nvars)
+        };
         if let Some(p) = only.first() {
             items.push(Cube::from_words(crate::cube::mask(s.nvars), p.value_bits()));
             continue;
