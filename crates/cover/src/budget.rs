@@ -26,6 +26,14 @@ impl Clock {
     }
 
     /// A clock that never runs out (the public entry points without a budget).
+    /// A clock of `deadline`, unbounded when there is none.
+    pub(crate) fn until_opt(deadline: Option<Instant>) -> Clock {
+        match deadline {
+            Some(d) => Clock::until(d),
+            None => Clock::unbounded(),
+        }
+    }
+
     pub(crate) fn unbounded() -> Clock {
         Clock {
             deadline: None,
@@ -66,6 +74,11 @@ impl Clock {
             }
         }
         self.expired.get()
+    }
+
+    /// Records that a clock of the same deadline (another task's) saw it pass.
+    pub(crate) fn mark_expired(&self) {
+        self.expired.set(true);
     }
 
     /// Whether the deadline was seen to pass (without reading the clock).

@@ -21,9 +21,24 @@ pub(crate) fn solve(
     clock: &Clock,
     grace: &Clock,
 ) -> Result<Solution, CoverError> {
+    // Each output's cover is independent of the others': built in parallel, each task
+    // with its own clocks of the same deadlines.
+    use rayon::prelude::*;
+    let (until, grace_until) = (clock.deadline(), grace.deadline());
+    let built: Vec<(Option<Vec<Cube>>, bool)> = specs
+        .par_iter()
+        .map(|s| {
+            let c = Clock::until_opt(until);
+            let g = Clock::until_opt(grace_until);
+            (cover_one(s, &c, &g), c.expired())
+        })
+        .collect();
     let mut covers: Vec<Vec<Cube>> = Vec::with_capacity(specs.len());
-    for s in specs {
-        match cover_one(s, clock, grace) {
+    for (s, (b, stopped)) in specs.iter().zip(built) {
+        if stopped {
+            clock.mark_expired();
+        }
+        match b {
             Some(c) => covers.push(c),
             None => return Err(crate::fallback::exhausted(&s.name)),
         }
@@ -31,11 +46,17 @@ pub(crate) fn solve(
     if cfg.sharing() && specs.len() > 1 && !clock.now() {
         share(specs, &mut covers, clock);
     }
+    let bounds: Vec<usize> = specs
+        .par_iter()
+        .zip(covers.par_iter_mut())
+        .map(|(s, cubes)| {
+            cubes.sort_unstable();
+            lower_bound(s, cubes, &Clock::until_opt(grace_until))
+        })
+        .collect();
     let mut outs = Vec::with_capacity(specs.len());
     let mut lb_all = 0;
-    for (s, mut cubes) in specs.iter().zip(covers) {
-        cubes.sort_unstable();
-        let lb = lower_bound(s, &cubes, grace);
+    for ((s, cubes), lb) in specs.iter().zip(covers).zip(bounds) {
         lb_all = lb_all.max(lb);
         outs.push(OutputCover {
             name: s.name.clone(),

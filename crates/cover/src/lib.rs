@@ -411,9 +411,21 @@ pub fn minimize(f: &MultiFunction, cfg: &Config) -> Result<Solution, CoverError>
         Some(d) => budget::Clock::until(d),
         None => budget::Clock::unbounded(),
     };
+    // The outputs are prepared in parallel (each task reads its own clock of the same
+    // deadline); the first error in output order is the one reported, as in a
+    // sequential run.
+    use rayon::prelude::*;
+    let prepared: Vec<Result<Option<hazard::OutputSpec>, CoverError>> = f
+        .outputs
+        .par_iter()
+        .map(|(name, func)| {
+            let clock = budget::Clock::until_opt(deadline);
+            hazard::prepare_within(name, func, cfg.hazards, &clock)
+        })
+        .collect();
     let mut specs = Vec::with_capacity(f.outputs.len());
-    for (name, func) in &f.outputs {
-        match hazard::prepare_within(name, func, cfg.hazards, &clock)? {
+    for p in prepared {
+        match p? {
             Some(s) => specs.push(s),
             None => {
                 let mut sol = fallback::unprepared(f, cfg.hazards, &grace, Stats::default())?;
