@@ -157,8 +157,11 @@ impl Function {
             }
         }
         let meet = |xs: &[Cube], ys: &[Cube]| {
-            xs.iter()
-                .find_map(|a| ys.iter().find_map(|b| crate::algebra::witness(a, b, nvars)))
+            xs.iter().find_map(|a| {
+                ys.iter()
+                    .find(|b| a.intersects(b))
+                    .and_then(|b| crate::algebra::witness(a, b, nvars))
+            })
         };
         if let Some(w) = meet(&on, &dc) {
             return Err(CoverError::OnDcOverlap {
@@ -178,8 +181,11 @@ impl Function {
         all.extend_from_slice(&on);
         all.extend_from_slice(&dc);
         all.extend_from_slice(&off);
-        if let Some(w) = complement(&all, nvars).first() {
-            let w = crate::algebra::witness(w, w, nvars).unwrap_or(*w);
+        if !crate::algebra::tautology(&all) {
+            // a point of the gap, for the message
+            let gap = complement(&all, nvars);
+            let w = gap.first().copied().unwrap_or_else(Cube::full);
+            let w = crate::algebra::witness(&w, &w, nvars).unwrap_or(w);
             return Err(CoverError::BadCube {
                 text: w.to_string(nvars),
                 reason: "the point is in none of the on-set, the don't-care set and the off-set"
