@@ -8,7 +8,8 @@
 //! cargo bench --bench ladder -- reduce tracey     # some sections
 //! cargo bench --bench ladder -- push              # how far each exact method proves
 //! ```
-//! Sections: `reduce`, `tracey`, `assign` (every method), `cover`, `push`.
+//! Sections: `reduce`, `tracey`, `assign` (every method), `cover`, `push` (with what the
+//! heuristics reach beyond).
 //! `STILLPOINT_LADDER_BUDGET=SECONDS` sets the budget of exact searches (default 60).
 
 mod common;
@@ -341,6 +342,72 @@ fn push() {
     }
 }
 
+/// What the heuristics reach beyond the exact methods: `tracey-fast` codes, heuristic
+/// covers of dense functions and the whole pipeline's fast configuration, one run each.
+fn beyond() {
+    println!("\n### Beyond: the heuristics, one run each\n");
+    println!("| method | size | result | ms |");
+    println!("| --- | --- | --- | --- |");
+    for (n, c) in [(64usize, 16usize), (128, 16), (256, 16), (512, 16)] {
+        let t = common::table(n, c);
+        let s = Instant::now();
+        let cfg = AssignConfig::default().method(Method::TraceyFast);
+        match assign(&t, &cfg) {
+            Ok(a) => println!(
+                "| tracey-fast | {n} x {c} | width {} (bound {}) | {} |",
+                a.codes.width(),
+                a.lower_bound,
+                ms(s.elapsed())
+            ),
+            Err(e) => println!("| tracey-fast | {n} x {c} | error: {e} | - |"),
+        }
+    }
+    for n in [16usize, 18, 20] {
+        for mode in [HazardMode::None, HazardMode::Full] {
+            let f = if mode == HazardMode::Full {
+                common::function_with_transitions(n, 0)
+            } else {
+                common::function(n)
+            };
+            let s = Instant::now();
+            let cfg = Config::default().hazards(mode).effort(Effort::Fast);
+            match minimize(&f, &cfg) {
+                Ok(sol) => println!(
+                    "| cover {} dense, heuristic | {n} vars | {} cubes (bound {}) | {} |",
+                    mode.name(),
+                    sol.cube_count,
+                    sol.lower_bound,
+                    ms(s.elapsed())
+                ),
+                Err(e) => println!(
+                    "| cover {} dense, heuristic | {n} vars | error: {e} | - |",
+                    mode.name()
+                ),
+            }
+        }
+    }
+    for (n, c) in [(64usize, 16usize), (96, 16), (128, 16)] {
+        let t = common::table(n, c);
+        let s = Instant::now();
+        let cfg = stillpoint::synth::SynthConfig::default()
+            .method(Method::TraceyFast)
+            .effort(Effort::Fast)
+            .alternatives(1)
+            .budget(budget());
+        match stillpoint::synth::synthesize(&t, &cfg) {
+            Ok(d) => println!(
+                "| synth fast | {n} x {c} | {} rows, width {}, {} products, verified {} | {} |",
+                d.table.num_states(),
+                d.assignment.codes.width(),
+                d.solution.cube_count,
+                d.verification.ok,
+                ms(s.elapsed())
+            ),
+            Err(e) => println!("| synth fast | {n} x {c} | error: {e} | - |"),
+        }
+    }
+}
+
 /// One run of one point, for profiling: `one cover MODE EFFORT VARS [sparse]`,
 /// `one tracey ROWS COLS`, `one tracey-fast ROWS COLS`, `one reduce ROWS COLS`.
 fn one(args: &[String]) {
@@ -442,5 +509,6 @@ fn main() {
     }
     if on("push") {
         push();
+        beyond();
     }
 }

@@ -73,8 +73,9 @@ impl SynthConfig {
     /// Time budget of the whole run, shared by its exact searches: the state reduction
     /// may use a tenth of it and the assignment two fifths (fixed shares of the budget,
     /// so that the assignment's deterministic work allowance does not depend on how
-    /// long the reduction took), and the covering what is left, split evenly over the
-    /// codes still to be minimised (time a code leaves over goes to the next). Encoding and verification are polynomial
+    /// long the reduction took), and the covering nine tenths of what is left (the rest
+    /// is kept for building and verifying the network), split evenly over the codes
+    /// still to be minimised (time a code leaves over goes to the next). Encoding and verification are polynomial
     /// and not budgeted. Each search that its share stops returns its best answer with
     /// a proven bound (see [`Design::warnings`]). [default: 60 s] [range: any]
     pub fn budget(mut self, b: Duration) -> Self {
@@ -497,7 +498,7 @@ pub fn synthesize(table: &FlowTable, cfg: &SynthConfig) -> Result<Design, SynthE
         let mut ccfg = Config::default()
             .hazards(HazardMode::Full)
             .effort(cfg.effort)
-            .budget(deadline.share(1, (ncand - i) as u32));
+            .budget(deadline.share(9, 10 * (ncand - i) as u32));
         if let Some(n) = cfg.node_limit {
             ccfg = ccfg.node_limit(n);
         }
