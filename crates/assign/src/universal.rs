@@ -13,7 +13,9 @@
 //!   universality is proven there and tested here for n = 2..32.
 //! - [`pruned_linear`]: **our own construction, not verified to be Tan's.** The universal
 //!   assignment of C. J. Tan (IEEE Trans. Computers C-20(4), 1971) could not be read
-//!   while this was written, so the `tan` method slot runs this instead: start from Liu's
+//!   while this was written (only a summary: its procedure builds a Liu assignment first
+//!   and then refines it, aiming at few gate inputs), so the `tan` method slot runs this
+//!   instead, which follows that outline with a refinement rule of our own: start from Liu's
 //!   linear forms and delete forms, last first, as long as every split of states (pair
 //!   from pair, pair from single, single from single) is still separated by a kept form.
 //!   Universality is proven by construction (a form is deleted only after an exhaustive
