@@ -451,7 +451,7 @@ fn quality_of_results_is_no_worse_than_the_baseline() {
     .expect("the baseline is JSON");
     let mut worse = Vec::new();
     let mut better = Vec::new();
-    for section in ["tables", "functions"] {
+    for section in ["tables", "functions", "designs"] {
         compare(
             section,
             &base[section],
