@@ -234,16 +234,17 @@ impl Config {
         self
     }
     /// The most time the exact search may spend, once the product count is proven,
-    /// on minimising literals among covers of that count (default: the rest of the
-    /// budget). When it runs out the cover keeps `optimal` (the count) and has
-    /// `literals_optimal: false`.
+    /// on minimising literals among covers of that count (default: a twentieth of the
+    /// budget, 3 s of the default 60 s, so that a proven count is not held back for
+    /// long by the literal polish; never more than the rest of the budget). When it
+    /// runs out the cover keeps `optimal` (the count) and has `literals_optimal: false`.
     pub fn literal_budget(mut self, budget: Duration) -> Self {
         self.literal_budget = Some(budget);
         self
     }
-    /// The configured literal budget (`None`: the rest of the budget).
+    /// The literal budget in force: the one set, else a twentieth of the budget.
     pub fn literal_budget_time(&self) -> Option<Duration> {
-        self.literal_budget
+        Some(self.literal_budget.unwrap_or(self.budget / 20))
     }
     /// Whether outputs may share products (default `true`).
     pub fn share_products(mut self, share: bool) -> Self {
