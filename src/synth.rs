@@ -75,9 +75,12 @@ impl SynthConfig {
     /// so that the assignment's deterministic work allowance does not depend on how
     /// long the reduction took), and the covering nine tenths of what is left (the rest
     /// is kept for building and verifying the network), split evenly over the codes
-    /// still to be minimised (time a code leaves over goes to the next). Encoding and verification are polynomial
-    /// and not budgeted. Each search that its share stops returns its best answer with
-    /// a proven bound (see [`Design::warnings`]). [default: 60 s] [range: any]
+    /// still to be minimised (time a code leaves over goes to the next). Encoding and
+    /// verification are polynomial and not budgeted. Each search that its share stops
+    /// returns its best answer with a proven bound (see [`Design::warnings`]); when the
+    /// covering's share ends before any valid cover, the heuristic cover runs once more
+    /// with a grace of a quarter of the budget (at least 1 s), and a warning says so.
+    /// [default: 60 s] [range: any]
     pub fn budget(mut self, b: Duration) -> Self {
         self.budget = b;
         self

@@ -227,10 +227,11 @@ impl AssignConfig {
         self
     }
 
-    /// Whether codes must also keep the table's outputs free of function hazards while the
-    /// state moves: two entries of a column with the same destination whose outputs clash
-    /// get sub-cubes that do not contain each other's source code (see the synthesis
-    /// glue, which asks for this). Applies to the dichotomy methods (`tracey`,
+    /// Whether codes must also keep the table's outputs free of hazards while the state
+    /// moves: a row whose entry in a column leads to the same destination as a move
+    /// `s -> t` (or is unspecified but gives an output) is kept out of `[c_s, c_t]` when
+    /// its output value clashes with the one the move shows, or when the move changes an
+    /// output (see the synthesis glue, which asks for this, and docs/synthesis.md). Applies to the dichotomy methods (`tracey`,
     /// `tracey-fast`); the universal codes separate every pair from every state anyway.
     /// [default: false]
     pub fn output_separation(mut self, on: bool) -> Self {
