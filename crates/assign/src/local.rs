@@ -14,22 +14,8 @@
 //! run.
 
 use crate::dichotomy::{ones, Dichotomy};
+use crate::tracey::SplitMix;
 use std::time::Instant;
-
-/// The deterministic generator (SplitMix64, common practice, no source).
-struct Rng(u64);
-impl Rng {
-    fn next(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        z ^ (z >> 31)
-    }
-    fn below(&mut self, n: usize) -> usize {
-        (self.next() % n.max(1) as u64) as usize
-    }
-}
 
 /// Dichotomies flattened: `states[start[j]..start[j + 1]]` are `P` then `Q`, `split[j]`
 /// is the size of `P`.
@@ -111,7 +97,7 @@ pub(crate) fn search(
     }
     let full = if k == 64 { u64::MAX } else { (1u64 << k) - 1 };
     let f = Flat::new(n, ds);
-    let mut rng = Rng(0x10ca_15ea_7c4e ^ seed.wrapping_mul(0x2545_f491_4f6c_dd1d));
+    let mut rng = SplitMix(0x10ca_15ea_7c4e ^ seed.wrapping_mul(0x2545_f491_4f6c_dd1d));
     let mut codes: Vec<u64> = if start.len() == n {
         narrow(&f, ds.len(), start, k)
     } else {

@@ -131,15 +131,20 @@ fn first_fit(ds: &[Dichotomy], order: &[usize]) -> Classes {
     cls
 }
 
-/// A small deterministic generator for the heuristic's orders.
-struct SplitMix(u64);
+/// A small deterministic generator (SplitMix64, common practice, no source) for the
+/// heuristic's orders and the local search's moves.
+pub(crate) struct SplitMix(pub(crate) u64);
 impl SplitMix {
-    fn next(&mut self) -> u64 {
+    pub(crate) fn next(&mut self) -> u64 {
         self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
         let mut z = self.0;
         z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
         z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
         z ^ (z >> 31)
+    }
+    /// A number in `0..n` (`0` when `n` is 0).
+    pub(crate) fn below(&mut self, n: usize) -> usize {
+        (self.next() % n.max(1) as u64) as usize
     }
 }
 
