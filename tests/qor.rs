@@ -250,6 +250,8 @@ fn cover_figures(f: &MultiFunction) -> Value {
 /// Recomputes every figure.
 fn figures() -> Value {
     let mut tables = Map::new();
+    // The corpus tables of at most 16 rows also go through the whole pipeline below.
+    let mut design_tables: Vec<(String, FlowTable)> = Vec::new();
     for p in corpus() {
         let name = p
             .file_name()
@@ -258,7 +260,13 @@ fn figures() -> Value {
             .to_string();
         let started = std::time::Instant::now();
         let v = match load(&p) {
-            Ok(t) => table_figures(&t),
+            Ok(t) => {
+                let v = table_figures(&t);
+                if t.num_states() <= 16 {
+                    design_tables.push((name.clone(), t));
+                }
+                v
+            }
             Err(e) => error(e),
         };
         eprintln!("qor: {name} in {:.2} s", started.elapsed().as_secs_f64());
@@ -275,15 +283,6 @@ fn figures() -> Value {
         tables.insert(format!("random-{rows}x{cols}-{salt}"), v);
     }
     let mut designs = Map::new();
-    let mut design_tables: Vec<(String, FlowTable)> = Vec::new();
-    for p in corpus() {
-        if let Ok(t) = load(&p) {
-            if t.num_states() <= 16 {
-                let name = p.file_name().and_then(|n| n.to_str()).unwrap_or("?");
-                design_tables.push((name.to_string(), t));
-            }
-        }
-    }
     for f in ["interlock", "catcher", "arbiter", "handshake"] {
         if let Ok(t) = load(&root().join(format!("demos/{f}.flow"))) {
             design_tables.push((format!("demo-{f}"), t));

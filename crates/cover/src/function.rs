@@ -100,11 +100,7 @@ impl Function {
         transitions: Vec<Transition>,
     ) -> Result<Function, CoverError> {
         check_nvars(nvars)?;
-        for c in on.iter().chain(&dc) {
-            if c.care_bits() & !mask(nvars) != 0 {
-                return Err(CoverError::CubeOutOfRange { nvars });
-            }
-        }
+        check_cubes(nvars, on.iter().chain(&dc))?;
         for a in &on {
             for b in &dc {
                 if let Some(w) = crate::algebra::witness(a, b, nvars) {
@@ -151,11 +147,7 @@ impl Function {
         transitions: Vec<Transition>,
     ) -> Result<Function, CoverError> {
         check_nvars(nvars)?;
-        for c in on.iter().chain(&dc).chain(&off) {
-            if c.care_bits() & !mask(nvars) != 0 {
-                return Err(CoverError::CubeOutOfRange { nvars });
-            }
-        }
+        check_cubes(nvars, on.iter().chain(&dc).chain(&off))?;
         let meet = |xs: &[Cube], ys: &[Cube]| {
             xs.iter().find_map(|a| {
                 ys.iter()
@@ -291,6 +283,16 @@ impl Function {
 fn check_nvars(nvars: usize) -> Result<(), CoverError> {
     if nvars > MAX_VARS {
         return Err(CoverError::TooManyVariables { nvars });
+    }
+    Ok(())
+}
+
+/// Every cube has its literals among the first `nvars` variables.
+fn check_cubes<'a>(nvars: usize, cubes: impl Iterator<Item = &'a Cube>) -> Result<(), CoverError> {
+    for c in cubes {
+        if c.care_bits() & !mask(nvars) != 0 {
+            return Err(CoverError::CubeOutOfRange { nvars });
+        }
     }
     Ok(())
 }

@@ -209,13 +209,9 @@ fn irredundant(s: &OutputSpec, f: &mut Vec<Cube>, pairs: Option<&[Vec<Cube>]>, c
         let c = f[i];
         let mut removable = if on_side(s) {
             // c lies in on + dc, so it is redundant when its on-set points are held
+            let mut holders = Vec::new();
             on_in(s, &c).iter().all(|p| {
-                let holders: Vec<Cube> = f
-                    .iter()
-                    .enumerate()
-                    .filter(|&(k, d)| k != i && d.intersects(p))
-                    .map(|(_, d)| *d)
-                    .collect();
+                others_meeting(f, i, p, &mut holders);
                 covers_cube(&holders, p)
             })
         } else {
@@ -329,6 +325,17 @@ fn on_in(s: &OutputSpec, c: &Cube) -> Vec<Cube> {
     s.on.iter().filter_map(|o| o.intersection(c)).collect()
 }
 
+/// Sets `out` to the cubes of `f` but `f[skip]` that meet `p`.
+fn others_meeting(f: &[Cube], skip: usize, p: &Cube, out: &mut Vec<Cube>) {
+    out.clear();
+    out.extend(
+        f.iter()
+            .enumerate()
+            .filter(|&(k, d)| k != skip && d.intersects(p))
+            .map(|(_, d)| *d),
+    );
+}
+
 /// The points of `c` held by no other cube of `f` and no don't-care, as cubes, from the
 /// on-set side (see [`on_side`]): each on-set piece of `c` minus the other products that
 /// meet it (most pieces lie inside one of them and cost a scan).
@@ -336,13 +343,7 @@ fn only_in_on(s: &OutputSpec, f: &[Cube], skip: usize, c: &Cube) -> Vec<Cube> {
     let mut out = Vec::new();
     let mut near: Vec<Cube> = Vec::new();
     for p in s.on.iter().filter_map(|o| o.intersection(c)) {
-        near.clear();
-        near.extend(
-            f.iter()
-                .enumerate()
-                .filter(|&(k, d)| k != skip && d.intersects(&p))
-                .map(|(_, d)| *d),
-        );
+        others_meeting(f, skip, &p, &mut near);
         if near.iter().any(|d| d.contains(&p)) {
             continue;
         }

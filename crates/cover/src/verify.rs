@@ -70,42 +70,36 @@ pub fn check(f: &MultiFunction, sol: &Solution, mode: HazardMode) -> Result<(), 
                     _ => {}
                 }
             }
-        } else if let Some(off) = func.given_off_cubes() {
-            // The off-set was given: no product may meet it.
-            for c in cubes {
-                if let Some(o) = off.iter().find(|o| o.intersects(c)) {
-                    say(
-                        None,
-                        format!(
-                            "product {} meets the off-set cube {}",
-                            c.to_string(n),
-                            o.to_string(n)
-                        ),
-                    );
-                }
-            }
-            for c in func.on_cubes() {
-                if !covers_cube(cubes, c) {
-                    say(
-                        None,
-                        format!("on-set cube {} is not covered", c.to_string(n)),
-                    );
-                }
-            }
         } else {
-            // No off-set point in a product: the product lies inside on ∪ dc.
-            let ondc: Vec<Cube> = func
-                .on_cubes()
-                .iter()
-                .chain(func.dc_cubes())
-                .copied()
-                .collect();
-            for c in cubes {
-                if !covers_cube(&ondc, c) {
-                    say(
-                        None,
-                        format!("product {} holds an off-set point", c.to_string(n)),
-                    );
+            if let Some(off) = func.given_off_cubes() {
+                // The off-set was given: no product may meet it.
+                for c in cubes {
+                    if let Some(o) = off.iter().find(|o| o.intersects(c)) {
+                        say(
+                            None,
+                            format!(
+                                "product {} meets the off-set cube {}",
+                                c.to_string(n),
+                                o.to_string(n)
+                            ),
+                        );
+                    }
+                }
+            } else {
+                // No off-set point in a product: the product lies inside on ∪ dc.
+                let ondc: Vec<Cube> = func
+                    .on_cubes()
+                    .iter()
+                    .chain(func.dc_cubes())
+                    .copied()
+                    .collect();
+                for c in cubes {
+                    if !covers_cube(&ondc, c) {
+                        say(
+                            None,
+                            format!("product {} holds an off-set point", c.to_string(n)),
+                        );
+                    }
                 }
             }
             for c in func.on_cubes() {
