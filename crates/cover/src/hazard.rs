@@ -159,12 +159,35 @@ pub(crate) fn prepare_within(
         transition: *t,
         reason: format!("{}: {reason}", t.describe(n)),
     };
+    // The value of every transition's end points, read once (from the point table
+    // when there is one: `Function::value` scans the cube lists).
+    let value = |m: u64| -> Option<bool> {
+        match &table {
+            Some(t) => match t.states()[Cube::minterm(n, m).value_bits() as usize] {
+                crate::points::ON => Some(true),
+                crate::points::OFF => Some(false),
+                _ => None,
+            },
+            None => f.value(m),
+        }
+    };
+    let ends: Vec<(Option<bool>, Option<bool>)> = f
+        .transitions()
+        .iter()
+        .map(|t| (value(t.start), value(t.end)))
+        .collect();
+    // Whether cube `c` holds a point of state `s` in the table (`None` without one).
+    let table_holds = |c: &Cube, s: u8| -> Option<bool> {
+        table
+            .as_ref()
+            .map(|t| !crate::points::each_point(c, n, |p| t.states()[p] != s))
+    };
     // Static transitions first: they fix don't-cares.
     let mut ones: Vec<(Cube, Transition)> = Vec::new();
     let mut zeros: Vec<(Cube, Transition)> = Vec::new();
-    for t in f.transitions() {
+    for (t, &ends) in f.transitions().iter().zip(&ends) {
         let cube = t.cube(n);
-        match (f.value(t.start), f.value(t.end)) {
+        match ends {
             (Some(true), Some(true)) => {
                 if let Some(w) = spec.off_witness(&cube) {
                     return Err(hazard(
@@ -179,7 +202,12 @@ pub(crate) fn prepare_within(
                 ones.push((cube, *t));
             }
             (Some(false), Some(false)) => {
-                if let Some(w) = spec.on.iter().find_map(|o| witness(o, &cube, n)) {
+                // (The table rules the on-set out quickly; the scan names the witness.)
+                let on_free = table_holds(&cube, crate::points::ON) == Some(false);
+                if let Some(w) = (!on_free)
+                    .then(|| spec.on.iter().find_map(|o| witness(o, &cube, n)))
+                    .flatten()
+                {
                     return Err(hazard(
                         t,
                         format!(
@@ -217,7 +245,11 @@ pub(crate) fn prepare_within(
         .iter()
         .chain(&zeros)
         .map(|(c, _)| *c)
-        .filter(|c| !spec.on.iter().chain(&spec.off).any(|d| d.contains(c)))
+        .filter(|c| match table_holds(c, crate::points::DC) {
+            // With a table: a cube holding no don't-care point changes nothing.
+            Some(dc) => dc,
+            None => !spec.on.iter().chain(&spec.off).any(|d| d.contains(c)),
+        })
         .collect();
     // Only the don't-care cubes that meet a transition cube change.
     let (hit, mut dc): (Vec<Cube>, Vec<Cube>) = spec
@@ -257,16 +289,46 @@ pub(crate) fn prepare_within(
         });
     }
     // Dynamic transitions.
-    for t in f.transitions() {
-        let (one_end, zero_end) = match (f.value(t.start), f.value(t.end)) {
-            (Some(true), Some(false)) => (t.start, t.end),
-            (Some(false), Some(true)) => (t.end, t.start),
+    for (t, &ends) in f.transitions().iter().zip(&ends) {
+        let one_end = match ends {
+            (Some(true), Some(false)) => t.start,
+            (Some(false), Some(true)) => t.end,
             _ => continue,
         };
-        let _ = zero_end;
         let cube = t.cube(n);
         let p = Cube::minterm(n, one_end);
         let mut req = Vec::new();
+        // With a table and a small transition cube: `[P, C]` for every on-set point
+        // `C` of the cube (the same containment-maximal set as the per-cube
+        // supercubes below, which also hold `[P, C]` for their farthest point); when
+        // one holds an off-set point, the scan below names the hazard.
+        if let Some(tb) = spec.table.as_ref().filter(|_| cube.size(n) <= 4096) {
+            let st = tb.states();
+            let clean = crate::points::each_point(&cube, n, |c| {
+                if st[c] != crate::points::ON {
+                    return true;
+                }
+                let r = p.supercube(&Cube::from_words(crate::cube::mask(n), c as u64));
+                req.push(r);
+                tb.off_witness(&r).is_none()
+            });
+            if clean {
+                scc(&mut req);
+                for r in req {
+                    spec.required.push(Required {
+                        cube: r,
+                        transition: *t,
+                    });
+                }
+                spec.privileged.push(Privileged {
+                    cube,
+                    start: p,
+                    transition: *t,
+                });
+                continue;
+            }
+            req.clear();
+        }
         for q in &spec.on {
             let Some(part) = q.intersection(&cube) else {
                 continue;
