@@ -69,6 +69,9 @@ pub(crate) struct Engine<'a> {
     req: Vec<u32>,
     /// The table's neighbour masks ([`Table::neighbours`]).
     nb: &'a [u32],
+    /// [`Engine::weight`] of every point, kept up to date by [`Engine::paint`] (one
+    /// byte per point: the expand scores read this alone).
+    wt: Vec<u8>,
 }
 
 impl<'a> Engine<'a> {
@@ -76,6 +79,12 @@ impl<'a> Engine<'a> {
     pub(crate) fn new(s: &'a OutputSpec, t: &'a Table) -> Engine<'a> {
         let n = t.nvars();
         let size = 1usize << n;
+        let (st, nb) = (t.states(), t.neighbours());
+        let wt = st
+            .iter()
+            .zip(nb)
+            .map(|(&s, &m)| if s == ON { fresh_weight(n, m) } else { 0 })
+            .collect();
         Engine {
             s,
             st: t.states(),
@@ -89,7 +98,8 @@ impl<'a> Engine<'a> {
                 Vec::new()
             },
             req: vec![0; s.required.len()],
-            nb: t.neighbours(),
+            nb,
+            wt,
         }
     }
 
@@ -109,16 +119,29 @@ impl<'a> Engine<'a> {
     fn paint(&mut self, c: &Cube, up: bool) {
         let n = self.n;
         let free = self.full & !c.care_bits();
-        let (cnt, pairs, st) = (&mut self.cnt, &mut self.pairs, self.st);
+        let (cnt, pairs, st, wt, nb) = (
+            &mut self.cnt,
+            &mut self.pairs,
+            self.st,
+            &mut self.wt,
+            self.nb,
+        );
         let pairs_on = !pairs.is_empty();
         each_point(c, n, |p| {
             if up {
                 cnt[p] += 1;
+                if cnt[p] == 1 && st[p] == ON {
+                    wt[p] = 1;
+                }
             } else {
                 cnt[p] -= 1;
+                if cnt[p] == 0 && st[p] == ON {
+                    wt[p] = fresh_weight(n, nb[p]);
+                }
             }
             if pairs_on && st[p] == ON {
-                let mut f = free & !(p as u64);
+                // (Only neighbours outside the off-set can be on-set points.)
+                let mut f = free & !(p as u64) & nb[p] as u64;
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
@@ -162,13 +185,29 @@ impl<'a> Engine<'a> {
     /// badly; measured: about 2 % fewer products at 16 variables than a flat weight).
     #[inline]
     fn weight(&self, p: usize) -> u32 {
-        if self.st[p] != ON {
-            0
-        } else if self.cnt[p] == 0 {
-            2 + (self.n as u32 - self.nb[p].count_ones())
-        } else {
-            1
+        self.wt[p] as u32
+    }
+
+    /// The variables `v` for which raising `v` in `c` may meet a privileged cube
+    /// illegally (all others certainly do not): for a legal `c`, only a privileged cube
+    /// one literal away along `v`, whose start point the raised cube misses.
+    fn priv_suspects(&self, c: &Cube) -> u64 {
+        let mut out = 0u64;
+        for q in &self.s.privileged {
+            let d = c.care_bits() & q.cube.care_bits() & (c.value_bits() ^ q.cube.value_bits());
+            if d == 0 {
+                if !c.contains(&q.start) {
+                    // `c` itself is not legal: check every raise in full.
+                    return u64::MAX;
+                }
+            } else if d & (d - 1) == 0 {
+                let rest = c.care_bits() & !d;
+                if (c.value_bits() ^ q.start.value_bits()) & rest != 0 {
+                    out |= d;
+                }
+            }
         }
+        out
     }
 
     /// Grows the legal cube `c` to a maximal legal cube, greedily.
@@ -180,12 +219,17 @@ impl<'a> Engine<'a> {
                 bits &= self.nb[p] as u64;
                 bits != 0
             });
+            let suspects = if self.s.privileged.is_empty() {
+                0
+            } else {
+                self.priv_suspects(&c)
+            };
             while bits != 0 {
                 let v = bits.trailing_zeros() as usize;
                 bits &= bits - 1;
                 let up = c.with_literal(v, None);
                 let mut score = 0u32;
-                if self.priv_ok(&up) {
+                if suspects >> v & 1 == 0 || self.priv_ok(&up) {
                     let half = Cube::from_words(c.care_bits(), c.value_bits() ^ (1 << v));
                     each_point(&half, self.n, |p| {
                         score += self.weight(p);
@@ -227,7 +271,7 @@ impl<'a> Engine<'a> {
                 return false;
             }
             if pairs_on {
-                let mut f = free & !(p as u64);
+                let mut f = free & !(p as u64) & self.nb[p] as u64;
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
@@ -252,13 +296,7 @@ impl<'a> Engine<'a> {
 
     /// Drops redundant products, smallest first.
     fn irredundant(&mut self, clock: &Clock) {
-        let mut order: Vec<usize> = (0..self.cubes.len())
-            .filter(|&k| self.cubes[k].is_some())
-            .collect();
-        order.sort_unstable_by_key(|&k| {
-            let c = self.cubes[k].unwrap_or_default();
-            (std::cmp::Reverse(c.literal_count()), k)
-        });
+        let order = by_literals(&self.cubes, true);
         for k in order {
             if clock.tick() {
                 return;
@@ -312,8 +350,11 @@ impl<'a> Engine<'a> {
                 if self.st[p] != ON {
                     continue;
                 }
-                for v in 0..n {
-                    if p >> v & 1 == 1 || self.st[p | 1 << v] != ON || self.pairs[p * n + v] > 0 {
+                let mut f = self.nb[p] as u64 & !(p as u64);
+                while f != 0 {
+                    let v = f.trailing_zeros() as usize;
+                    f &= f - 1;
+                    if self.st[p | 1 << v] != ON || self.pairs[p * n + v] > 0 {
                         continue;
                     }
                     let c = Cube::from_words(self.full & !(1 << v), p as u64);
@@ -350,7 +391,7 @@ impl<'a> Engine<'a> {
                 join(&mut sc, pt);
             }
             if pairs_on {
-                let mut f = free & !(p as u64);
+                let mut f = free & !(p as u64) & self.nb[p] as u64;
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
@@ -392,6 +433,43 @@ impl<'a> Engine<'a> {
     }
 }
 
+/// The positions of the products in `cubes` (removed ones skipped when `most_first`,
+/// kept in the other order as literal count 0), ordered by literal count (most first
+/// when `most_first`, else fewest first), ties by position: the order of a sort on
+/// `(literals, position)`, by counting (literal counts are at most 64).
+fn by_literals(cubes: &[Option<Cube>], most_first: bool) -> Vec<usize> {
+    let mut start = [0usize; 66];
+    let key = |c: &Option<Cube>| {
+        let l = c.map_or(0, |c| c.literal_count());
+        if most_first {
+            64 - l
+        } else {
+            l
+        }
+    };
+    let skip = |c: &Option<Cube>| most_first && c.is_none();
+    for c in cubes.iter().filter(|c| !skip(c)) {
+        start[key(c) + 1] += 1;
+    }
+    for i in 1..start.len() {
+        start[i] += start[i - 1];
+    }
+    let mut order = vec![0usize; start[65]];
+    for (k, c) in cubes.iter().enumerate().filter(|(_, c)| !skip(c)) {
+        let b = &mut start[key(c)];
+        order[*b] = k;
+        *b += 1;
+    }
+    order
+}
+
+/// The weight of an on-set point held by no product, from its neighbour mask `m` (see
+/// [`Engine::weight`]).
+#[inline]
+fn fresh_weight(n: usize, m: u32) -> u8 {
+    (2 + n as u32 - m.count_ones()) as u8
+}
+
 /// The heuristic cover of one output over its point table; `None` only if a seed point
 /// has no legal product (which the existence test rules out).
 pub(crate) fn cover(s: &OutputSpec, t: &Table, clock: &Clock) -> Option<Vec<Cube>> {
@@ -416,11 +494,7 @@ pub(crate) fn cover(s: &OutputSpec, t: &Table, clock: &Clock) -> Option<Vec<Cube
         if clock.now() {
             break;
         }
-        let mut order: Vec<usize> = (0..e.cubes.len()).collect();
-        order.sort_unstable_by_key(|&k| {
-            let c = e.cubes[k].unwrap_or_default();
-            (c.literal_count(), k)
-        });
+        let order = by_literals(&e.cubes, false);
         // A product reduce left alone is still maximal: only the shrunk ones grow again.
         let mut shrunk = vec![false; e.cubes.len()];
         for &k in &order {
@@ -479,8 +553,8 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
             true
         });
     }
-    let mut by_size: Vec<usize> = (0..cover.len()).collect();
-    by_size.sort_unstable_by_key(|&k| (std::cmp::Reverse(cover[k].literal_count()), k));
+    let some: Vec<Option<Cube>> = cover.iter().copied().map(Some).collect();
+    let by_size = by_literals(&some, true);
     let mut cands: Vec<u32> = Vec::new();
     for &k in &by_size {
         let mut found = None;
