@@ -219,8 +219,23 @@ fn group_candidates(
 ) -> Option<(Vec<Cube>, usize)> {
     let j = members[0];
     let s = &specs[j];
-    let ondc: Vec<Cube> = s.on.iter().chain(&s.dc).copied().collect();
-    let p = primes_within(&ondc, clock)?;
+    // From the point table up to 12 variables, and up to 14 when the sets are given as
+    // many cubes (the same set; the table's time, `n 3^n`, does not depend on how the
+    // sets are given, the recursion's grows with the cubes), else by recursive
+    // splitting of the covers.
+    let many = s.on.len() + s.dc.len() >= 1 << s.nvars.saturating_sub(4);
+    let p = match s
+        .table
+        .as_ref()
+        .filter(|_| s.nvars <= 12 || many)
+        .and_then(|t| t.primes())
+    {
+        Some(p) => p,
+        None => {
+            let ondc: Vec<Cube> = s.on.iter().chain(&s.dc).copied().collect();
+            primes_within(&ondc, clock)?
+        }
+    };
     let n = p.len();
     Some((dhf_split_within(p, &s.privileged, clock)?, n))
 }

@@ -420,11 +420,16 @@ pub(crate) fn dhf_split_within(
         work.sort();
         return Some(work);
     }
+    // The cubes are containment-free (primes, then the result of the previous pass),
+    // so only the new pieces need the containment test: a piece lies inside the cube it
+    // came from, so it holds no other cube of the pass.
+    scc_within(&mut work, clock);
     for p in privileged {
         if clock.now() {
             return None;
         }
         let mut next = Vec::with_capacity(work.len());
+        let mut pieces = Vec::new();
         for c in work {
             if !p.cube.intersects(&c) || c.contains(&p.start) {
                 next.push(c);
@@ -433,11 +438,15 @@ pub(crate) fn dhf_split_within(
             let mut bits = p.cube.care_bits() & !c.care_bits();
             while bits != 0 {
                 let v = bits.trailing_zeros() as usize;
-                next.push(c.with_literal(v, p.cube.literal(v).map(|b| !b)));
+                pieces.push(c.with_literal(v, p.cube.literal(v).map(|b| !b)));
                 bits &= bits - 1;
             }
         }
-        scc_within(&mut next, clock);
+        if !pieces.is_empty() {
+            scc_within(&mut pieces, clock);
+            pieces.retain(|q| !next.iter().any(|c| c.contains(q)));
+            next.extend(pieces);
+        }
         work = next;
     }
     // A piece split off for one privileged cube may meet an earlier one illegally only
@@ -449,6 +458,7 @@ pub(crate) fn dhf_split_within(
         }
         changed = false;
         let mut next = Vec::with_capacity(work.len());
+        let mut pieces = Vec::new();
         for c in work {
             if let Some(p) = privileged
                 .iter()
@@ -458,14 +468,17 @@ pub(crate) fn dhf_split_within(
                 let mut bits = p.cube.care_bits() & !c.care_bits();
                 while bits != 0 {
                     let v = bits.trailing_zeros() as usize;
-                    next.push(c.with_literal(v, p.cube.literal(v).map(|b| !b)));
+                    pieces.push(c.with_literal(v, p.cube.literal(v).map(|b| !b)));
                     bits &= bits - 1;
                 }
             } else {
                 next.push(c);
             }
         }
-        scc_within(&mut next, clock);
+        // (Containment as in the first passes: only the pieces are tested.)
+        scc_within(&mut pieces, clock);
+        pieces.retain(|q| !next.iter().any(|c| c.contains(q)));
+        next.extend(pieces);
         work = next;
     }
     if clock.expired() {
