@@ -62,6 +62,16 @@ pub struct Limits {
     /// phase (literals among covers of the proven product count) may take, within
     /// `deadline`; `None` for all the time left.
     pub literal_time: Option<std::time::Duration>,
+    /// With lexicographic costs: the most work the second phase may do, in matrix
+    /// entries visited (each subgradient step and each Lagrangian cover counts the
+    /// entries of its node, each reduction pass the words of its rows), so that where
+    /// it stops depends on the problem only, not on the machine; `None` for no such
+    /// limit.
+    pub literal_work: Option<u64>,
+    /// When `literal_work` is `None`: an allowance of this many units per entry of the
+    /// covering matrix (so it grows with the problem), at least [`LITERAL_WORK_FLOOR`];
+    /// `None` for no limit.
+    pub literal_work_per_entry: Option<u64>,
 }
 
 type Bits = Vec<u64>;
@@ -145,6 +155,10 @@ struct Search<'a> {
     /// A cover of the whole problem and a lower bound on every cover's cost, for the
     /// root when it is one block (taken by the first [`Search::exact`] call).
     seed: Option<((u64, Vec<usize>), u64)>,
+    /// Work done so far, in matrix entries visited (see [`Limits::literal_work`]).
+    work: std::cell::Cell<u64>,
+    /// Stop once `work` passes this.
+    work_limit: u64,
 }
 
 /// The column index of a node: its columns, each row's columns and each column's rows
@@ -154,6 +168,11 @@ struct Mat {
     rowcols: Vec<Vec<u32>>,
     colrows: Vec<Vec<u32>>,
 }
+
+/// The least allowance of [`Limits::literal_work_per_entry`]: small problems (a few
+/// hundred entries) spend most of their literal search in the root's subgradient steps,
+/// whatever their size.
+pub const LITERAL_WORK_FLOOR: u64 = 1 << 20;
 
 /// Fixed-point scale of the literal phase (its costs are small integers).
 const LIT_SCALE: i64 = 1 << 16;
@@ -226,7 +245,7 @@ pub fn solve_from(p: &Problem, limits: Limits, start: Option<&[usize]>) -> Resul
     };
     if unit == 1 {
         let seed = seed_with(&p.cost);
-        let r = run(&p.cost, rows, p.ncols, limits, (1, 0), seed);
+        let r = run(&p.cost, rows, p.ncols, limits, (1, 0), seed, u64::MAX);
         return Ok(r.outcome(started.elapsed()));
     }
     // Phase 1: the product count alone (every column costs `COUNT_UNIT`, so the
@@ -234,7 +253,17 @@ pub fn solve_from(p: &Problem, limits: Limits, start: Option<&[usize]>) -> Resul
     // more columns dominate each other and the bounds have no literal part to close.
     let ones = vec![COUNT_UNIT; p.ncols];
     let seed = seed_with(&ones);
-    let first = run(&ones, rows.clone(), p.ncols, limits, (COUNT_UNIT, 0), seed);
+    let mut first = run(
+        &ones,
+        rows.clone(),
+        p.ncols,
+        limits,
+        (COUNT_UNIT, 0),
+        seed,
+        u64::MAX,
+    );
+    // Cheaper columns for the same count before the literal search starts from it.
+    polish(&rows, &p.cost, p.ncols, &mut first.cols);
     let lex: u64 = first.cols.iter().map(|&c| p.cost[c]).sum();
     let count_lb = (first.lb.min(first.cost) / COUNT_UNIT).saturating_mul(unit);
     let count_time = started.elapsed();
@@ -271,6 +300,13 @@ pub fn solve_from(p: &Problem, limits: Limits, start: Option<&[usize]>) -> Resul
         second_limits,
         (unit, slack),
         Some(((lex, first.cols.clone()), count_lb)),
+        limits
+            .literal_work
+            .or(limits.literal_work_per_entry.map(|k| {
+                let entries: u64 = p.rows.iter().map(|r| r.len() as u64).sum();
+                k.saturating_mul(entries).max(LITERAL_WORK_FLOOR)
+            }))
+            .unwrap_or(u64::MAX),
     );
     let (cost, mut cols) = if second.cost <= lex {
         (second.cost, second.cols)
@@ -292,6 +328,75 @@ pub fn solve_from(p: &Problem, limits: Limits, start: Option<&[usize]>) -> Resul
         core: first.core,
         count_time,
     })
+}
+
+/// Cheaper columns for a cover, one at a time: each chosen column (dearest first) is
+/// replaced by the cheapest column that holds every row only it holds, when that one
+/// costs less; passes repeat while some replacement happens. The number of columns
+/// never grows (a column holding no row alone is dropped), so a cover of proven
+/// minimum count keeps its count and loses literals.
+fn polish(rows: &[Bits], cost: &[u64], ncols: usize, cols: &mut Vec<usize>) {
+    let words = ncols.div_ceil(64).max(1);
+    let mut colrows: Vec<Vec<u32>> = vec![Vec::new(); ncols];
+    for (i, r) in rows.iter().enumerate() {
+        for c in ones(r) {
+            colrows[c].push(i as u32);
+        }
+    }
+    let mut held = vec![0u32; rows.len()];
+    let mut chosen = vec![0u64; words];
+    for &c in cols.iter() {
+        set(&mut chosen, c);
+        for &i in &colrows[c] {
+            held[i as usize] += 1;
+        }
+    }
+    let mut cand = vec![0u64; words];
+    for _ in 0..8 {
+        let mut changed = false;
+        cols.sort_by_key(|&c| (std::cmp::Reverse(cost[c]), c));
+        for slot in cols.iter_mut() {
+            let c = *slot;
+            cand.iter_mut().for_each(|w| *w = u64::MAX);
+            let mut alone = false;
+            for &i in &colrows[c] {
+                if held[i as usize] == 1 {
+                    alone = true;
+                    for (w, r) in cand.iter_mut().zip(&rows[i as usize]) {
+                        *w &= *r;
+                    }
+                }
+            }
+            let pick = if alone {
+                ones(&cand)
+                    .filter(|&d| d < ncols && !has(&chosen, d))
+                    .min_by_key(|&d| (cost[d], d))
+                    .filter(|&d| cost[d] < cost[c])
+            } else {
+                None
+            };
+            if alone && pick.is_none() {
+                continue;
+            }
+            for &i in &colrows[c] {
+                held[i as usize] -= 1;
+            }
+            clear(&mut chosen, c);
+            if let Some(d) = pick {
+                for &i in &colrows[d] {
+                    held[i as usize] += 1;
+                }
+                set(&mut chosen, d);
+            }
+            *slot = pick.unwrap_or(usize::MAX);
+            changed = true;
+        }
+        cols.retain(|&c| c != usize::MAX);
+        if !changed {
+            break;
+        }
+    }
+    cols.sort_unstable();
 }
 
 /// One branch-and-bound run.
@@ -335,6 +440,7 @@ fn run(
     limits: Limits,
     (unit, slack): (u64, u64),
     seed: Option<((u64, Vec<usize>), u64)>,
+    work_limit: u64,
 ) -> Run {
     let words = ncols.div_ceil(64).max(1);
     let mut mask = vec![0u64; words];
@@ -353,6 +459,8 @@ fn run(
         slack,
         lagrangian,
         seed,
+        work: std::cell::Cell::new(0),
+        work_limit,
     };
     let nrows = rows.len();
     let mut root = Node {
@@ -387,6 +495,16 @@ fn run(
 }
 
 impl Search<'_> {
+    /// Counts `w` units of work.
+    fn spend(&self, w: u64) {
+        self.work.set(self.work.get().saturating_add(w));
+    }
+
+    /// Whether the work allowance is spent.
+    fn over(&self) -> bool {
+        self.work.get() > self.work_limit
+    }
+
     /// Exact solution of a subproblem (its own upper bound, split into independent
     /// blocks when it falls apart). When the budget has run out, the greedy answer.
     fn exact(&mut self, mut n: Node) -> Sub {
@@ -518,8 +636,197 @@ impl Search<'_> {
 
     /// Applies essential columns, row dominance and column dominance until none
     /// applies. `false` if some row lost all its columns.
+    ///
+    /// The rows keep their positions until the end (dead ones marked), so the
+    /// column-to-rows index is built once and kept up to date as rows and columns go;
+    /// the passes and their order are those of a rebuild per pass (same result).
     fn reduce(&self, n: &mut Node) -> bool {
+        for r in n.rows.iter_mut() {
+            for (w, m) in r.iter_mut().zip(&n.mask) {
+                *w &= *m;
+            }
+        }
+        let nr = n.rows.len();
+        let rw = nr.div_ceil(64).max(1);
+        let ncol = self.words * 64;
+        // colrows[c * rw..][..rw]: the live rows holding live column c.
+        let mut colrows = vec![0u64; ncol * rw];
+        for (ri, r) in n.rows.iter().enumerate() {
+            for c in ones(r) {
+                set(&mut colrows[c * rw..(c + 1) * rw], ri);
+            }
+        }
+        let mut live = vec![true; nr];
+        let mut left = nr;
+        // Takes row `ri` out (and out of the index).
+        fn kill_row(rows: &[Bits], colrows: &mut [u64], rw: usize, ri: usize) {
+            for c in ones(&rows[ri]) {
+                clear(&mut colrows[c * rw..(c + 1) * rw], ri);
+            }
+        }
+        // Takes column `c` out of the live rows and the index.
+        fn kill_col(rows: &mut [Bits], colrows: &mut [u64], rw: usize, c: usize) {
+            let slot = &mut colrows[c * rw..(c + 1) * rw];
+            for ri in ones(slot) {
+                clear(&mut rows[ri], c);
+            }
+            slot.iter_mut().for_each(|w| *w = 0);
+        }
+        let result = loop {
+            self.spend((left * self.words) as u64);
+            let mut changed = false;
+            // Essential columns (all rows of one column at once: a row left with one
+            // column keeps it while other essential columns are taken).
+            let mut essential = vec![0u64; self.words];
+            let mut any = false;
+            let mut empty = false;
+            for (r, _) in n.rows.iter().zip(&live).filter(|(_, &l)| l) {
+                let c = count(r);
+                if c == 0 {
+                    empty = true;
+                    break;
+                }
+                if c == 1 {
+                    for (e, w) in essential.iter_mut().zip(r) {
+                        *e |= *w;
+                    }
+                    any = true;
+                }
+            }
+            if empty {
+                break false;
+            }
+            if any {
+                for col in ones(&essential) {
+                    n.chosen.push(col);
+                    n.cost += self.cost[col];
+                }
+                for (m, e) in n.mask.iter_mut().zip(&essential) {
+                    *m &= !*e;
+                }
+                for col in ones(&essential) {
+                    let slot = colrows[col * rw..(col + 1) * rw].to_vec();
+                    for ri in ones(&slot) {
+                        if live[ri] {
+                            live[ri] = false;
+                            left -= 1;
+                            kill_row(&n.rows, &mut colrows, rw, ri);
+                        }
+                    }
+                    kill_col(&mut n.rows, &mut colrows, rw, col);
+                }
+                continue;
+            }
+            if left == 0 {
+                break true;
+            }
+            if self.clock.now() {
+                // Out of time: the dominance reductions are optional.
+                break true;
+            }
+            // Row dominance: a row holding all columns of another row is implied.
+            // Candidates containing row a must hold a's first column.
+            let mut order: Vec<usize> = (0..nr).filter(|&i| live[i]).collect();
+            let sizes: Vec<u32> = n.rows.iter().map(|r| count(r)).collect();
+            order.sort_by_key(|&i| (sizes[i], i));
+            let mut rank = vec![0usize; nr];
+            for (pos, &a) in order.iter().enumerate() {
+                rank[a] = pos;
+            }
+            let mut dead = vec![false; nr];
+            for (pos, &a) in order.iter().enumerate() {
+                if self.clock.tick() {
+                    break;
+                }
+                if dead[a] {
+                    continue;
+                }
+                let first = ones(&n.rows[a]).next().unwrap_or(0);
+                for b in ones(&colrows[first * rw..(first + 1) * rw]) {
+                    if b == a || dead[b] {
+                        continue;
+                    }
+                    // Ties (equal rows): the later one in `order` dies.
+                    if subset(&n.rows[a], &n.rows[b]) {
+                        let a_first = rank[b] > pos;
+                        if n.rows[a] != n.rows[b] || a_first {
+                            dead[b] = true;
+                            changed = true;
+                        }
+                    }
+                }
+            }
+            if changed {
+                for ri in 0..nr {
+                    if dead[ri] {
+                        live[ri] = false;
+                        left -= 1;
+                        kill_row(&n.rows, &mut colrows, rw, ri);
+                    }
+                }
+                continue;
+            }
+            // Column dominance: c1 is dropped if some c2 covers all its rows at no more
+            // cost; c2 must hold the first row of c1.
+            let active: Vec<usize> = ones(&n.mask).collect();
+            let mut alive = vec![true; ncol];
+            let slot = |c: usize| c * rw..(c + 1) * rw;
+            for &c in &active {
+                if colrows[slot(c)].iter().all(|&w| w == 0) {
+                    alive[c] = false;
+                    clear(&mut n.mask, c);
+                    changed = true;
+                }
+            }
+            let mut dropped = Vec::new();
+            for &c1 in &active {
+                if self.clock.tick() {
+                    break;
+                }
+                if !alive[c1] {
+                    continue;
+                }
+                let r0 = ones(&colrows[slot(c1)]).next().unwrap_or(0);
+                for c2 in ones(&n.rows[r0]) {
+                    if c1 == c2 || !alive[c2] || self.cost[c1] < self.cost[c2] {
+                        continue;
+                    }
+                    if !subset(&colrows[slot(c1)], &colrows[slot(c2)]) {
+                        continue;
+                    }
+                    // Equal sets and equal costs: keep the lower index.
+                    if self.cost[c1] == self.cost[c2]
+                        && colrows[slot(c1)] == colrows[slot(c2)]
+                        && c1 < c2
+                    {
+                        continue;
+                    }
+                    alive[c1] = false;
+                    clear(&mut n.mask, c1);
+                    dropped.push(c1);
+                    changed = true;
+                    break;
+                }
+            }
+            for c in dropped {
+                kill_col(&mut n.rows, &mut colrows, rw, c);
+            }
+            if !changed {
+                break true;
+            }
+        };
+        if left < nr {
+            n.retain_rows(|i, _| live[i]);
+        }
+        result
+    }
+
+    /// The reductions as first written (the column-to-rows index rebuilt every pass):
+    /// the reference [`Search::reduce`] is tested against.
+    #[cfg(test)]
+    fn reduce_reference(&self, n: &mut Node) -> bool {
         loop {
+            self.spend((n.rows.len() * self.words) as u64);
             let mut changed = false;
             for r in n.rows.iter_mut() {
                 for (w, m) in r.iter_mut().zip(&n.mask) {
@@ -848,6 +1155,7 @@ impl Search<'_> {
         let mut red = vec![0i64; m.cols.len()];
         let mut g = vec![0i64; u.len()];
         let mut stall = 0;
+        let entries: u64 = m.rowcols.iter().map(|r| r.len() as u64).sum();
         let eval = |u: &[i64], mu: i64, red: &mut [i64]| -> i64 {
             for (r, &c) in red.iter_mut().zip(cost) {
                 *r = c + mu;
@@ -882,7 +1190,8 @@ impl Search<'_> {
             if done(best_l) || f < 0.005 {
                 break;
             }
-            if it % 8 == 7 && self.clock.now() {
+            self.spend(entries);
+            if it % 8 == 7 && (self.clock.now() || self.over()) {
                 self.stopped = true;
                 break;
             }
@@ -955,6 +1264,7 @@ impl Search<'_> {
     /// dearest first. Improves `best` when cheaper.
     fn lag_cover(&self, n: &Node, m: &Mat, red: &[i64], best: &mut (u64, Vec<usize>)) {
         let (cols, rowcols, colrows) = (&m.cols, &m.rowcols, &m.colrows);
+        self.spend(rowcols.iter().map(|r| r.len() as u64).sum());
         let mut covered = vec![0u32; rowcols.len()];
         let mut pick: Vec<usize> = Vec::new();
         let add = |k: usize, covered: &mut [u32], pick: &mut Vec<usize>| {
@@ -1015,7 +1325,7 @@ impl Search<'_> {
             return floor;
         }
         self.nodes += 1;
-        if self.nodes > self.limits.node_limit || self.clock.now() {
+        if self.nodes > self.limits.node_limit || self.clock.now() || self.over() {
             self.stopped = true;
             return floor;
         }
@@ -1222,6 +1532,8 @@ mod tests {
             deadline: Instant::now() + Duration::from_secs(10),
             node_limit: u64::MAX,
             literal_time: None,
+            literal_work: None,
+            literal_work_per_entry: None,
         }
     }
 
@@ -1298,6 +1610,71 @@ mod tests {
 
     proptest::proptest! {
         #![proptest_config(proptest::prelude::ProptestConfig::with_cases(300))]
+        #[test]
+        fn reduce_equals_the_rebuilding_reference(
+            ncols in 2usize..140,
+            raw in proptest::collection::vec((proptest::prelude::any::<u64>(), proptest::prelude::any::<u64>(), proptest::prelude::any::<u8>()), 1..150),
+            drop in proptest::prelude::any::<u64>(),
+        ) {
+            // Random rows of 1 to 5 columns over up to 140 columns (three words), some
+            // columns masked out, costs 1..5 (equal costs exercise the ties).
+            let words = ncols.div_ceil(64);
+            let rows: Vec<Bits> = raw
+                .iter()
+                .map(|&(a, b, _)| {
+                    let mut r = vec![0u64; words];
+                    let k = 1 + (a % 5) as usize;
+                    for j in 0..k {
+                        let c = ((b >> (j * 8)) as usize * 31 + j) % ncols;
+                        set(&mut r, c);
+                    }
+                    r
+                })
+                .collect();
+            let cost: Vec<u64> = (0..ncols)
+                .map(|c| raw.get(c).map_or(1, |&(_, _, w)| w as u64 % 5 + 1))
+                .collect();
+            let mut mask = vec![0u64; words];
+            for c in 0..ncols {
+                if drop >> (c % 64) & 1 == 0 || c % 3 != 0 {
+                    set(&mut mask, c);
+                }
+            }
+            let limits = limits();
+            let s = Search {
+                cost: &cost,
+                words,
+                nodes: 0,
+                stopped: false,
+                limits,
+                clock: Clock::until(limits.deadline),
+                unit: 1,
+                slack: 0,
+                lagrangian: true,
+                seed: None,
+                work: std::cell::Cell::new(0),
+                work_limit: u64::MAX,
+            };
+            let node = Node {
+                mult: vec![[0; 2]; rows.len()],
+                rows,
+                mu: 0,
+                mask,
+                chosen: Vec::new(),
+                cost: 0,
+                iters: 0,
+            };
+            let (mut a, mut b) = (node.clone(), node);
+            let ra = s.reduce(&mut a);
+            let rb = s.reduce_reference(&mut b);
+            proptest::prop_assert_eq!(ra, rb);
+            if ra {
+                proptest::prop_assert_eq!(&a.rows, &b.rows);
+                proptest::prop_assert_eq!(&a.mask, &b.mask);
+                proptest::prop_assert_eq!(&a.chosen, &b.chosen);
+                proptest::prop_assert_eq!(a.cost, b.cost);
+            }
+        }
         #[test]
         fn bound_never_exceeds_brute_force_optimum(
             ncols in 2usize..12,

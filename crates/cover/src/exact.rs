@@ -60,6 +60,11 @@ fn solve_inner(
         }),
         node_limit: cfg.nodes(),
         literal_time: cfg.literal_budget_time(),
+        literal_work: cfg.literal_work,
+        literal_work_per_entry: match (cfg.literal_work, cfg.literal_budget) {
+            (None, None) => Some(crate::LITERAL_WORK_PER_ENTRY),
+            _ => None,
+        },
     };
     if !cfg.sharing() || specs.len() == 1 || specs.len() > 64 {
         let mut outs = Vec::with_capacity(specs.len());
