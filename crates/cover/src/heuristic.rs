@@ -50,7 +50,7 @@ pub(crate) fn solve(
         .par_iter()
         .zip(covers.par_iter_mut())
         .map(|(s, cubes)| {
-            cubes.sort_unstable();
+            crate::cube::sort_cubes(cubes);
             lower_bound(s, cubes, &Clock::until_opt(grace_until))
         })
         .collect();

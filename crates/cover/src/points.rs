@@ -84,20 +84,28 @@ impl Table {
     /// of every point of the cube.
     pub(crate) fn neighbours(&self) -> &[u32] {
         self.nb.get_or_init(|| {
+            use rayon::prelude::*;
             let (st, n) = (&self.state, self.n);
             let mut nb = vec![0u32; st.len()];
-            for (p, m) in nb.iter_mut().enumerate() {
-                if st[p] == OFF {
-                    continue;
-                }
-                let mut f = 0u32;
-                for v in 0..n {
-                    if st[p ^ 1 << v] != OFF {
-                        f |= 1 << v;
+            // In chunks on the thread pool (each point's mask depends on the table only,
+            // so the result does not depend on the threads).
+            nb.par_chunks_mut(1 << 14)
+                .enumerate()
+                .for_each(|(k, chunk)| {
+                    for (i, m) in chunk.iter_mut().enumerate() {
+                        let p = (k << 14) + i;
+                        if st[p] == OFF {
+                            continue;
+                        }
+                        let mut f = 0u32;
+                        for v in 0..n {
+                            if st[p ^ 1 << v] != OFF {
+                                f |= 1 << v;
+                            }
+                        }
+                        *m = f;
                     }
-                }
-                *m = f;
-            }
+                });
             nb
         })
     }
