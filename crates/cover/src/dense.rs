@@ -428,7 +428,13 @@ impl<'a> Engine<'a> {
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if self.st[p | 1 << v] == ON && self.pairs[self.slot(p, v)] == 1 {
+                    let x = if self.st[p | 1 << v] == ON {
+                        self.pairs[self.slot(p, v)]
+                    } else {
+                        0
+                    };
+                    // (A saturated count may hide a last holder: kept, like one.)
+                    if x == 1 || x == u8::MAX {
                         join(&mut sc, pt.with_literal(v, None));
                     }
                 }
