@@ -658,11 +658,14 @@ fn greedy_points(s: &OutputSpec, t: &Table, cands: &[u32], clock: &Clock) -> usi
     let st = t.states();
     let full = mask(n);
     let free_of = t.neighbours();
-    let mut chosen = vec![false; st.len()];
+    // The members as a bitset (an eighth of a byte table: the enumerations below test
+    // it at scattered points).
+    let mut chosen = vec![0u64; st.len().div_ceil(64)];
+    let is = |b: &[u64], q: usize| b[q >> 6] >> (q & 63) & 1 == 1;
     let mut list: Vec<usize> = Vec::new();
     for &p in cands {
         let p = p as usize;
-        if chosen[p] {
+        if is(&chosen, p) {
             continue;
         }
         if clock.tick() {
@@ -679,14 +682,14 @@ fn greedy_points(s: &OutputSpec, t: &Table, cands: &[u32], clock: &Clock) -> usi
         };
         let clash = if fp.count_ones() <= ENUM_DIM {
             let np = Cube::from_words(full & !fp, p as u64);
-            !each_point(&np, n, |q| !(chosen[q] && compatible(q)))
+            !each_point(&np, n, |q| !(is(&chosen, q) && compatible(q)))
         } else if list.len() <= SCAN_MAX {
             list.iter().any(|&q| compatible(q))
         } else {
             continue;
         };
         if !clash {
-            chosen[p] = true;
+            chosen[p >> 6] |= 1 << (p & 63);
             list.push(p);
         }
     }
