@@ -59,7 +59,7 @@ pub(crate) struct Engine<'a> {
     full: u64,
     /// Chosen products (`None` once removed).
     cubes: Vec<Option<Cube>>,
-    /// Products holding each point.
+    /// Products holding each on-set point (other points are not counted).
     cnt: Vec<u32>,
     /// Static mode: products holding the pair `(p, p ^ 1 << v)` of on-set points at
     /// `rank(p) * n + v` (for `p` with bit `v` clear; `rank` counts the on-set points
@@ -162,18 +162,22 @@ impl<'a> Engine<'a> {
         let (on_bits, on_below) = (&self.on_bits, &self.on_below);
         let pairs_on = !on_bits.is_empty();
         each_point(c, n, |p| {
+            // Only on-set points are counted (no count of another point is read).
+            if st[p] != ON {
+                return true;
+            }
             if up {
                 cnt[p] += 1;
-                if cnt[p] == 1 && st[p] == ON {
+                if cnt[p] == 1 {
                     wt[p] = 1;
                 }
             } else {
                 cnt[p] -= 1;
-                if cnt[p] == 0 && st[p] == ON {
+                if cnt[p] == 0 {
                     wt[p] = fresh_weight(n, nb[p]);
                 }
             }
-            if pairs_on && st[p] == ON {
+            if pairs_on {
                 let mut f = free & !(p as u64);
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
@@ -600,7 +604,9 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
         let mut cnt = vec![0u8; st.len()];
         for c in cover {
             each_point(c, n, |p| {
-                cnt[p] = cnt[p].saturating_add(1);
+                if st[p] == ON {
+                    cnt[p] = cnt[p].saturating_add(1);
+                }
                 true
             });
         }
