@@ -1693,6 +1693,45 @@ mod tests {
             proptest::prop_assert!(full.optimal);
             proptest::prop_assert_eq!(full.cost, opt);
             proptest::prop_assert_eq!(full.lower_bound, opt);
+            // A literal search cut by its work allowance: the count is still the
+            // minimum (lexicographic costs), the cover valid, the bound true.
+            let cut = solve(&p, Limits { literal_work: Some(node_limit * 50), ..limits() }).unwrap();
+            proptest::prop_assert!(cut.lower_bound <= opt && opt <= cut.cost);
+            proptest::prop_assert!(p.rows.iter().all(|r| r.iter().any(|c| cut.cols.contains(c))));
+            if lexi {
+                proptest::prop_assert_eq!(cut.cost >> 32, opt >> 32);
+                proptest::prop_assert_eq!(cut.lower_bound >> 32, opt >> 32);
+            }
+        }
+
+        #[test]
+        fn exchange_keeps_a_cover_and_never_costs_more(
+            ncols in 2usize..12,
+            raw in proptest::collection::vec((proptest::prelude::any::<u16>(), proptest::prelude::any::<u8>()), 1..24),
+        ) {
+            // Start from every column (a cover): the exchange must leave a cover of no
+            // more columns and no more cost (checked directly; common practice, no
+            // source).
+            let p = problem(ncols, &raw, true);
+            let words = ncols.div_ceil(64);
+            let rows: Vec<Bits> = p
+                .rows
+                .iter()
+                .map(|r| {
+                    let mut b = vec![0u64; words];
+                    for &c in r {
+                        set(&mut b, c);
+                    }
+                    b
+                })
+                .collect();
+            let mut cols: Vec<usize> = (0..ncols).collect();
+            let before: u64 = cols.iter().map(|&c| p.cost[c]).sum();
+            polish(&rows, &p.cost, ncols, &mut cols);
+            let after: u64 = cols.iter().map(|&c| p.cost[c]).sum();
+            proptest::prop_assert!(cols.len() <= ncols && after <= before);
+            proptest::prop_assert!(p.rows.iter().all(|r| r.iter().any(|c| cols.contains(c))));
+            proptest::prop_assert!(after >= brute(&p));
         }
     }
 }
