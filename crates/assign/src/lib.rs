@@ -245,12 +245,13 @@ impl AssignConfig {
     }
 }
 
-/// SAT work units (bytes of solver proof output) the exact Tracey method may spend per
-/// second of [`AssignConfig::budget`]. Calibrated on the 2-core machine this was measured
-/// on: the solver wrote 0.7–1.1 MB of proof per second there under a load of 3–7, and
-/// the allowance of a 10 s budget was spent in 3.6–8.7 s on random 24- and 32-state
-/// tables, leaving the wall-clock safety net for a slower or busier machine.
-pub const SAT_WORK_PER_SECOND: u64 = 500_000;
+/// SAT work units (conflicts of the solver, counted as learned clauses, summed over the
+/// two solvers that run at once, see `docs/assign.md`) the exact Tracey method may spend
+/// per second of [`AssignConfig::budget`]. Calibrated on the 2-core machine this was
+/// measured on: one solver did 14 000-15 000 conflicts per second on random 24-state
+/// tables under a load of 2, so two at once spend this allowance in about 0.7 s per
+/// second of budget, leaving the wall-clock safety net for a slower or busier machine.
+pub const SAT_WORK_PER_SECOND: u64 = 20_000;
 
 /// Counts and times of one [`assign`] run.
 #[derive(Debug, Clone, Default, PartialEq, Eq)]
@@ -268,8 +269,8 @@ pub struct AssignStats {
     pub nodes: u64,
     /// Whether a budget stopped a search.
     pub budget_exhausted: bool,
-    /// Work units spent by the SAT engine of the exact Tracey method (bytes of solver
-    /// proof output; 0 when it did not run).
+    /// Work units spent by the SAT engine of the exact Tracey method (solver conflicts,
+    /// and local-search steps converted to them; 0 when it did not run).
     pub sat_work: u64,
     /// Whether the wall-clock safety net, rather than a deterministic work limit, stopped
     /// a search; only then may the result differ between runs.

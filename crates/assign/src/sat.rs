@@ -24,41 +24,39 @@
 //!      incompatible dichotomies (in every orientation) are covered by `m` different
 //!      variables in any solution (two of them can never share one), so after permuting
 //!      the variables, which keeps step 1, `c_t` is covered by variable `t`: its clause
-//!      becomes `x[c_t][t]`. Only `m` of the `k` variables are pinned, but the solver
-//!      finds codes fast.
+//!      becomes `x[c_t][t]`. Only `m` of the `k` variables are pinned.
 //!    - [`Sym::Lex`]: the bit columns (rows: the other states, busiest first) are in
 //!      strictly decreasing lexicographic order, which breaks every permutation (sorting
 //!      the columns of a solution keeps it one; two equal columns can be made different
-//!      when `2^(n-1) >= k`). It refutes a width much faster (24-state tables: seconds
-//!      instead of minutes) but finds codes more slowly.
+//!      when `2^(n-1) >= k`).
 //!
-//! [`decide_alternating`] runs the two encodings in turn with doubling allowances.
+//! **Solver**: CaDiCaL (the `cadical` crate, a general-purpose CDCL solver), in two
+//! option sets ([`Tuning`]): its defaults, which refute fastest here, and its set for
+//! satisfiable instances, which finds codes fastest (24-state tables of 16 columns: the
+//! hardest refutation measured took 16 s with the defaults and 19 s with the other set;
+//! the hardest code, 126 s with the defaults and 2 s with the other). [`decide_pair`]
+//! runs both on the lexicographic encoding at once, one thread each.
 //!
-//! **Budget**: the solver has no interrupt and no conflict limit; its proof output (binary
-//! DRAT, mostly one record per learned or deleted clause) is written into a sink that
-//! counts the bytes and fails once a work allowance is spent, which makes the solver stop
-//! with an error (the solver is then dropped and the width reported as not decided). The
-//! solver is deterministic, so the byte count at which it stops, and with it every
-//! answer, is the same on every run: the allowance ([`Work`]) is the deterministic limit.
-//! The sink also fails once a wall-clock deadline has passed; that is only a safety net,
-//! and when it fires [`Work::clock_fired`] records it (the result may then differ between
-//! runs).
+//! **Budget**: work is counted in learned clauses (one per conflict), through the
+//! solver's learned-clause callback; each solve gets a conflict limit of the work left.
+//! The solver is deterministic, so where a solve stops, and with it every answer, is the
+//! same on every run: the allowance ([`Work`]) is the deterministic limit. A wall-clock
+//! deadline, polled by the solver's termination callback, is only a safety net, and when
+//! it fires [`Work::clock_fired`] records it (the result may then differ between runs).
 
 use crate::dichotomy::{ones, Dichotomy};
 use crate::tracey::Classes;
-use std::cell::Cell;
-use std::io;
-use std::rc::Rc;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
 use std::time::Instant;
-use varisat::{ExtendFormula, Lit, ProofFormat, Solver};
 
-/// The deterministic work allowance of the SAT solves of one search, in bytes of proof
-/// output, with a wall-clock deadline as the outer safety net.
+/// The deterministic work allowance of the SAT solves of one search, in learned clauses
+/// (conflicts), with a wall-clock deadline as the outer safety net.
 #[derive(Debug, Clone)]
 pub(crate) struct Work {
-    /// Bytes still allowed.
+    /// Units still allowed.
     pub(crate) left: u64,
-    /// Bytes written so far (all solves).
+    /// Units spent so far (all solves).
     pub(crate) used: u64,
     /// The safety net.
     pub(crate) deadline: Option<Instant>,
@@ -67,10 +65,10 @@ pub(crate) struct Work {
 }
 
 impl Work {
-    /// An allowance of `bytes` with a deadline.
-    pub(crate) fn new(bytes: u64, deadline: Option<Instant>) -> Work {
+    /// An allowance of `units` with a deadline.
+    pub(crate) fn new(units: u64, deadline: Option<Instant>) -> Work {
         Work {
-            left: bytes,
+            left: units,
             used: 0,
             deadline,
             clock_fired: false,
@@ -83,10 +81,10 @@ impl Work {
         Work::new(u64::MAX, None)
     }
 
-    /// A part of the allowance, at most `bytes`, to be given back with [`Work::absorb`].
-    pub(crate) fn part(&self, bytes: u64) -> Work {
+    /// A part of the allowance, at most `units`, to be given back with [`Work::absorb`].
+    pub(crate) fn part(&self, units: u64) -> Work {
         Work {
-            left: self.left.min(bytes),
+            left: self.left.min(units),
             used: 0,
             deadline: self.deadline,
             clock_fired: false,
@@ -100,36 +98,15 @@ impl Work {
         self.clock_fired |= part.clock_fired;
     }
 
+    /// Charges `units`.
+    fn charge(&mut self, units: u64) {
+        self.used = self.used.saturating_add(units);
+        self.left = self.left.saturating_sub(units);
+    }
+
     /// Whether nothing is left (allowance spent or the deadline fired).
     pub(crate) fn spent(&self) -> bool {
         self.left == 0 || self.clock_fired
-    }
-}
-
-/// A proof sink that counts bytes and refuses writes beyond the allowance or after the
-/// deadline (how a solve is stopped).
-struct CountingSink {
-    written: Rc<Cell<u64>>,
-    limit: u64,
-    deadline: Option<Instant>,
-    clock: Rc<Cell<bool>>,
-}
-
-impl io::Write for CountingSink {
-    fn write(&mut self, buf: &[u8]) -> io::Result<usize> {
-        let w = self.written.get().saturating_add(buf.len() as u64);
-        if w > self.limit {
-            return Err(io::Error::other("work allowance spent"));
-        }
-        if self.deadline.is_some_and(|d| Instant::now() >= d) {
-            self.clock.set(true);
-            return Err(io::Error::other("deadline"));
-        }
-        self.written.set(w);
-        Ok(buf.len())
-    }
-    fn flush(&mut self) -> io::Result<()> {
-        Ok(())
     }
 }
 
@@ -140,19 +117,8 @@ pub(crate) enum Answer {
     Found(Vec<Classes>),
     /// No code of this width exists (proof).
     Infeasible,
-    /// The deadline came first.
+    /// The allowance or the deadline came first.
     Stopped,
-}
-
-/// The encoding of one width.
-struct Encoding {
-    solver: Solver<'static>,
-    /// `b[s][i]`.
-    bits: Vec<Vec<Lit>>,
-    /// Proof bytes written by this solver.
-    written: Rc<Cell<u64>>,
-    /// Whether the deadline stopped it.
-    clock: Rc<Cell<bool>>,
 }
 
 /// The state in the most dichotomies (lowest index on a tie).
@@ -172,40 +138,71 @@ fn pivot(n: usize, ds: &[Dichotomy]) -> usize {
 /// keep a solution of every satisfiable instance, so either one's UNSAT is a proof.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub(crate) enum Sym {
-    /// The clique members on fixed variables (step 2 of the module doc): finds codes fast.
+    /// The clique members on fixed variables (step 2 of the module doc).
     Clique,
     /// The bit columns in strictly decreasing lexicographic order (rows: the busiest
-    /// states first): breaks every permutation of the variables, refutes faster, but
-    /// slows the search for a code.
+    /// states first): breaks every permutation of the variables.
     Lex,
 }
 
-fn encode(
+/// Which option set of the solver a solve uses.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Tuning {
+    /// The solver's defaults (refutes fastest on these formulas).
+    Refute,
+    /// The solver's set for satisfiable instances (finds codes fastest).
+    Find,
+}
+
+/// Clauses in DIMACS numbering, each ended by 0, and the number of variables.
+#[derive(Debug, Clone, Default)]
+pub(crate) struct Cnf {
+    /// Highest variable.
+    pub(crate) vars: i32,
+    /// Literals, clauses ended by 0.
+    pub(crate) lits: Vec<i32>,
+}
+
+impl Cnf {
+    fn var(&mut self) -> i32 {
+        self.vars += 1;
+        self.vars
+    }
+    fn clause(&mut self, c: &[i32]) {
+        self.lits.extend_from_slice(c);
+        self.lits.push(0);
+    }
+    /// The clauses, one slice each.
+    pub(crate) fn clauses(&self) -> impl Iterator<Item = &[i32]> {
+        self.lits.split(|&l| l == 0).filter(|c| !c.is_empty())
+    }
+    /// The formula in DIMACS text (for experiments with other solvers).
+    #[cfg(test)]
+    pub(crate) fn dimacs(&self) -> String {
+        let mut out = format!("p cnf {} {}\n", self.vars, self.clauses().count());
+        for c in self.clauses() {
+            for l in c {
+                out += &format!("{l} ");
+            }
+            out += "0\n";
+        }
+        out
+    }
+}
+
+/// The clauses of width `k` (see the module doc) and the variables `b[s][i]`.
+pub(crate) fn formula(
     n: usize,
     ds: &[Dichotomy],
     clique: &[usize],
     k: usize,
-    work: &Work,
     sym: Sym,
-) -> Encoding {
-    let mut solver = Solver::new();
-    let written = Rc::new(Cell::new(0));
-    let clock = Rc::new(Cell::new(false));
-    if work.left != u64::MAX || work.deadline.is_some() {
-        let sink = CountingSink {
-            written: written.clone(),
-            limit: work.left,
-            deadline: work.deadline,
-            clock: clock.clone(),
-        };
-        solver.write_proof(sink, ProofFormat::BinaryDrat);
-    }
-    let bits: Vec<Vec<Lit>> = (0..n)
-        .map(|_| (0..k).map(|_| solver.new_lit()).collect())
-        .collect();
+) -> (Cnf, Vec<Vec<i32>>) {
+    let mut f = Cnf::default();
+    let bits: Vec<Vec<i32>> = (0..n).map(|_| (0..k).map(|_| f.var()).collect()).collect();
     let r = pivot(n, ds);
     for &l in &bits[r] {
-        solver.add_clause(&[!l]);
+        f.clause(&[-l]);
     }
     let mut fixed_at = vec![usize::MAX; ds.len()];
     if sym == Sym::Clique {
@@ -216,28 +213,27 @@ fn encode(
     // e[s][t][i] <-> (b[s][i] == b[t][i]), created on first use, shared by every
     // dichotomy that needs the two states equal (same side) or different (across).
     let mut agree_at: Vec<u32> = vec![u32::MAX; n * n];
-    let mut agree: Vec<Vec<Lit>> = Vec::new();
-    let mut agree_of =
-        |solver: &mut Solver<'static>, agree: &mut Vec<Vec<Lit>>, s: usize, t: usize| {
-            let (s, t) = (s.min(t), s.max(t));
-            if agree_at[s * n + t] == u32::MAX {
-                let e: Vec<Lit> = (0..k)
-                    .map(|i| {
-                        let e = solver.new_lit();
-                        let (a, b) = (bits[s][i], bits[t][i]);
-                        solver.add_clause(&[!e, !a, b]);
-                        solver.add_clause(&[!e, a, !b]);
-                        solver.add_clause(&[e, a, b]);
-                        solver.add_clause(&[e, !a, !b]);
-                        e
-                    })
-                    .collect();
-                agree_at[s * n + t] = agree.len() as u32;
-                agree.push(e);
-            }
-            agree_at[s * n + t] as usize
-        };
-    let mut any: Vec<Lit> = Vec::with_capacity(k);
+    let mut agree: Vec<Vec<i32>> = Vec::new();
+    let mut agree_of = |f: &mut Cnf, agree: &mut Vec<Vec<i32>>, s: usize, t: usize| {
+        let (s, t) = (s.min(t), s.max(t));
+        if agree_at[s * n + t] == u32::MAX {
+            let e: Vec<i32> = (0..k)
+                .map(|i| {
+                    let e = f.var();
+                    let (a, b) = (bits[s][i], bits[t][i]);
+                    f.clause(&[-e, -a, b]);
+                    f.clause(&[-e, a, -b]);
+                    f.clause(&[e, a, b]);
+                    f.clause(&[e, -a, -b]);
+                    e
+                })
+                .collect();
+            agree_at[s * n + t] = agree.len() as u32;
+            agree.push(e);
+        }
+        agree_at[s * n + t] as usize
+    };
+    let mut any: Vec<i32> = Vec::with_capacity(k);
     let mut same: Vec<usize> = Vec::new();
     for (j, d) in ds.iter().enumerate() {
         any.clear();
@@ -246,42 +242,37 @@ fn encode(
             continue;
         };
         for p in ones(d.left).skip(1) {
-            same.push(agree_of(&mut solver, &mut agree, p0, p));
+            same.push(agree_of(&mut f, &mut agree, p0, p));
         }
         for q in ones(d.right).skip(1) {
-            same.push(agree_of(&mut solver, &mut agree, q0, q));
+            same.push(agree_of(&mut f, &mut agree, q0, q));
         }
-        let across = agree_of(&mut solver, &mut agree, p0, q0);
+        let across = agree_of(&mut f, &mut agree, p0, q0);
         let vars = if fixed_at[j] != usize::MAX {
             fixed_at[j]..fixed_at[j] + 1
         } else {
             0..k
         };
         for i in vars {
-            let apart = !agree[across][i];
+            let apart = -agree[across][i];
             if same.is_empty() {
                 any.push(apart);
                 continue;
             }
             // x[j][i]: variable i covers dichotomy j (in either orientation).
-            let x = solver.new_lit();
-            solver.add_clause(&[!x, apart]);
+            let x = f.var();
+            f.clause(&[-x, apart]);
             for &e in &same {
-                solver.add_clause(&[!x, agree[e][i]]);
+                f.clause(&[-x, agree[e][i]]);
             }
             any.push(x);
         }
-        solver.add_clause(&any);
+        f.clause(&any);
     }
     if sym == Sym::Lex {
-        lex_order(&mut solver, &bits, ds, r);
+        lex_order(&mut f, &bits, ds, r);
     }
-    Encoding {
-        solver,
-        bits,
-        written,
-        clock,
-    }
+    (f, bits)
 }
 
 /// Column `i` lexicographically greater than column `i + 1`, rows in the order of
@@ -290,7 +281,7 @@ fn encode(
 /// columns can be made different (a replaced duplicate covers nothing the other does
 /// not) as long as there are enough distinct columns, `2^(n-1) >= k`; otherwise the
 /// order is not strict.
-fn lex_order(solver: &mut Solver<'static>, bits: &[Vec<Lit>], ds: &[Dichotomy], r: usize) {
+fn lex_order(f: &mut Cnf, bits: &[Vec<i32>], ds: &[Dichotomy], r: usize) {
     let n = bits.len();
     let k = bits.first().map_or(0, Vec::len);
     if k < 2 {
@@ -307,34 +298,162 @@ fn lex_order(solver: &mut Solver<'static>, bits: &[Vec<Lit>], ds: &[Dichotomy], 
     let strict = n > 64 || (1u64 << (n - 1)) >= k as u64;
     for i in 0..k - 1 {
         // eq: the rows before the current one are equal in both columns.
-        let mut eq: Option<Lit> = None;
+        let mut eq: Option<i32> = None;
         for &s in &rows {
             let (a, b) = (bits[s][i], bits[s][i + 1]);
             match eq {
-                None => solver.add_clause(&[a, !b]),
-                Some(q) => solver.add_clause(&[!q, a, !b]),
+                None => f.clause(&[a, -b]),
+                Some(q) => f.clause(&[-q, a, -b]),
             }
-            let next = solver.new_lit();
-            solver.add_clause(&[!next, !a, b]);
-            solver.add_clause(&[!next, a, !b]);
+            let next = f.var();
+            f.clause(&[-next, -a, b]);
+            f.clause(&[-next, a, -b]);
             match eq {
                 None => {
-                    solver.add_clause(&[next, !a, !b]);
-                    solver.add_clause(&[next, a, b]);
+                    f.clause(&[next, -a, -b]);
+                    f.clause(&[next, a, b]);
                 }
                 Some(q) => {
-                    solver.add_clause(&[!next, q]);
-                    solver.add_clause(&[next, !q, !a, !b]);
-                    solver.add_clause(&[next, !q, a, b]);
+                    f.clause(&[-next, q]);
+                    f.clause(&[next, -q, -a, -b]);
+                    f.clause(&[next, -q, a, b]);
                 }
             }
             eq = Some(next);
         }
         if strict {
             if let Some(q) = eq {
-                solver.add_clause(&[!q]);
+                f.clause(&[-q]);
             }
         }
+    }
+}
+
+/// The solver's callbacks: counts learned clauses (the work), stops on a cancel flag
+/// (another solve of the same question decided it) or the deadline.
+struct Meter {
+    learned: u64,
+    deadline: Option<Instant>,
+    cancel: Arc<AtomicBool>,
+    polls: u32,
+    clock_fired: bool,
+}
+
+impl cadical::Callbacks for Meter {
+    fn max_length(&self) -> i32 {
+        i32::MAX
+    }
+    fn learn(&mut self, _clause: &[i32]) {
+        self.learned += 1;
+    }
+    fn terminate(&mut self) -> bool {
+        if self.cancel.load(Ordering::Relaxed) {
+            return true;
+        }
+        self.polls = self.polls.wrapping_add(1);
+        if self.polls % 64 == 0 && self.deadline.is_some_and(|d| Instant::now() >= d) {
+            self.clock_fired = true;
+            return true;
+        }
+        false
+    }
+}
+
+/// One solver on one encoding of one width.
+struct Engine {
+    solver: cadical::Solver<Meter>,
+    bits: Vec<Vec<i32>>,
+}
+
+/// What one bounded solve ended with.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Run {
+    Sat,
+    Unsat,
+    /// The conflict limit (deterministic).
+    Limit,
+    /// The deadline or the cancel flag.
+    Interrupted,
+}
+
+impl Engine {
+    fn new(
+        (f, bits): (Cnf, Vec<Vec<i32>>),
+        tuning: Tuning,
+        deadline: Option<Instant>,
+        cancel: Arc<AtomicBool>,
+    ) -> Engine {
+        let config = match tuning {
+            Tuning::Refute => "default",
+            Tuning::Find => "sat",
+        };
+        let mut solver: cadical::Solver<Meter> =
+            cadical::Solver::with_config(config).unwrap_or_default();
+        solver.set_callbacks(Some(Meter {
+            learned: 0,
+            deadline,
+            cancel,
+            polls: 0,
+            clock_fired: false,
+        }));
+        for c in f.clauses() {
+            solver.add_clause(c.iter().copied());
+        }
+        Engine { solver, bits }
+    }
+
+    fn learned(&mut self) -> u64 {
+        self.solver.get_callbacks().map_or(0, |m| m.learned)
+    }
+
+    fn clock_fired(&mut self) -> bool {
+        self.solver.get_callbacks().is_some_and(|m| m.clock_fired)
+    }
+
+    /// Solves with at most `limit` more conflicts (continuing from earlier solves).
+    fn run(&mut self, limit: u64) -> Run {
+        let lim = i32::try_from(limit).unwrap_or(i32::MAX);
+        if self.solver.set_limit("conflicts", lim).is_err() {
+            return Run::Interrupted;
+        }
+        match self.solver.solve() {
+            Some(true) => Run::Sat,
+            Some(false) => Run::Unsat,
+            None => {
+                let interrupted = self
+                    .solver
+                    .get_callbacks()
+                    .is_some_and(|m| m.clock_fired || m.cancel.load(Ordering::Relaxed));
+                if interrupted {
+                    Run::Interrupted
+                } else {
+                    Run::Limit
+                }
+            }
+        }
+    }
+
+    /// The bit matrix of the last model.
+    fn code(&self) -> Vec<Vec<bool>> {
+        self.bits
+            .iter()
+            .map(|row| {
+                row.iter()
+                    .map(|&l| self.solver.value(l).unwrap_or(false))
+                    .collect()
+            })
+            .collect()
+    }
+
+    /// Excludes the bit matrix `code`.
+    fn block(&mut self, code: &[Vec<bool>]) {
+        let clause: Vec<i32> = self
+            .bits
+            .iter()
+            .zip(code)
+            .flat_map(|(row, c)| row.iter().zip(c).map(|(&l, &v)| if v { -l } else { l }))
+            .collect();
+        self.solver.add_clause(clause);
     }
 }
 
@@ -367,10 +486,78 @@ fn classes_of(ds: &[Dichotomy], code: &[Vec<bool>], k: usize) -> Classes {
     cls
 }
 
-/// Decides width `k` for `n` states and the required dichotomies `ds`; `clique` is a
-/// clique of pairwise incompatible dichotomies (indices into `ds`). When feasible, up to
-/// `want` solutions with distinct class sets are returned (further solves with clauses
-/// blocking each found bit matrix, at most `4 * want` solves). The solves spend `work`.
+/// Trivial answers: a clique wider than `k`, more states than codes, width 0.
+fn trivial(n: usize, ds: &[Dichotomy], clique: &[usize], k: usize) -> Option<Answer> {
+    if clique.len() > k || (k < 64 && n > 1usize << k) {
+        return Some(Answer::Infeasible);
+    }
+    if k == 0 {
+        return Some(if n <= 1 && ds.is_empty() {
+            Answer::Found(vec![Vec::new()])
+        } else {
+            Answer::Infeasible
+        });
+    }
+    None
+}
+
+/// Further codes from `e` after a satisfiable solve: blocks each bit matrix seen and
+/// solves again (incrementally), up to `want` distinct class sets in `found`, at most
+/// `4 * want` solves in all. Returns whether the formula became unsatisfiable or the
+/// work ran out.
+fn collect(
+    e: &mut Engine,
+    ds: &[Dichotomy],
+    k: usize,
+    work: &mut Work,
+    want: usize,
+    found: &mut Vec<Classes>,
+) {
+    let mut seen: Vec<Classes> = found
+        .iter()
+        .map(|cls| {
+            let mut key: Classes = cls.iter().map(|c| c.normalized()).collect();
+            key.sort_unstable();
+            key
+        })
+        .collect();
+    for _ in 1..want.max(1) * 4 {
+        if found.len() >= want.max(1) || work.spent() {
+            return;
+        }
+        let before = e.learned();
+        let r = e.run(work.left);
+        work.charge(e.learned() - before);
+        match r {
+            Run::Sat => {}
+            Run::Unsat => return,
+            Run::Limit => {
+                work.left = 0;
+                return;
+            }
+            Run::Interrupted => {
+                work.clock_fired |= e.clock_fired();
+                return;
+            }
+        }
+        let code = e.code();
+        e.block(&code);
+        let cls = classes_of(ds, &code, k);
+        let mut key: Classes = cls.iter().map(|c| c.normalized()).collect();
+        key.sort_unstable();
+        if !seen.contains(&key) {
+            seen.push(key);
+            found.push(cls);
+        }
+    }
+}
+
+/// Decides width `k` for `n` states and the required dichotomies `ds` with one solver
+/// (encoding `sym`, option set `tuning`); `clique` is a clique of pairwise incompatible
+/// dichotomies (indices into `ds`). When feasible, up to `want` solutions with distinct
+/// class sets are returned (further solves with clauses blocking each found bit matrix,
+/// at most `4 * want` solves). The solves spend `work`.
+#[allow(clippy::too_many_arguments)]
 pub(crate) fn decide(
     n: usize,
     ds: &[Dichotomy],
@@ -379,105 +566,51 @@ pub(crate) fn decide(
     work: &mut Work,
     want: usize,
     sym: Sym,
+    tuning: Tuning,
 ) -> Answer {
-    if clique.len() > k || (k < 64 && n > 1usize << k) {
-        return Answer::Infeasible;
+    if let Some(a) = trivial(n, ds, clique, k) {
+        return a;
     }
-    if k == 0 {
-        return if n <= 1 && ds.is_empty() {
-            Answer::Found(vec![Vec::new()])
-        } else {
-            Answer::Infeasible
-        };
+    if work.spent() {
+        return Answer::Stopped;
     }
-    let mut found: Vec<Classes> = Vec::new();
-    let mut seen: Vec<Classes> = Vec::new();
-    // Bit matrices already returned or seen. The solver writes a proof (that is how the
-    // deadline stops it), and proofs do not allow clauses added after a solve, so each
-    // further solve starts from a fresh encoding with one blocking clause per matrix.
-    let mut blocked: Vec<Vec<Vec<bool>>> = Vec::new();
-    for _ in 0..want.max(1) * 4 {
-        if work.spent() {
-            return if found.is_empty() {
-                Answer::Stopped
-            } else {
-                Answer::Found(found)
-            };
+    let cancel = Arc::new(AtomicBool::new(false));
+    let mut e = Engine::new(
+        formula(n, ds, clique, k, sym),
+        tuning,
+        work.deadline,
+        cancel,
+    );
+    let before = e.learned();
+    let r = e.run(work.left);
+    work.charge(e.learned() - before);
+    match r {
+        Run::Sat => {}
+        Run::Unsat => return Answer::Infeasible,
+        Run::Limit => {
+            work.left = 0;
+            return Answer::Stopped;
         }
-        let mut e = encode(n, ds, clique, k, work, sym);
-        for code in &blocked {
-            let block: Vec<Lit> = e
-                .bits
-                .iter()
-                .zip(code)
-                .flat_map(|(row, c)| row.iter().zip(c).map(|(&l, &v)| if v { !l } else { l }))
-                .collect();
-            e.solver.add_clause(&block);
+        Run::Interrupted => {
+            work.clock_fired |= e.clock_fired();
+            return Answer::Stopped;
         }
-        let res = e.solver.solve();
-        let spent = e.written.get();
-        work.used += spent;
-        work.left = if work.left == u64::MAX {
-            u64::MAX
-        } else {
-            work.left.saturating_sub(spent)
-        };
-        if res.is_err() {
-            work.clock_fired |= e.clock.get();
-            if !e.clock.get() {
-                work.left = 0;
-            }
-        }
-        match res {
-            Ok(true) => {}
-            Ok(false) => break,
-            Err(_) => {
-                return if found.is_empty() {
-                    Answer::Stopped
-                } else {
-                    Answer::Found(found)
-                };
-            }
-        }
-        let model = e.solver.model().unwrap_or_default();
-        let mut val = vec![false; model.len() + 1];
-        for l in &model {
-            if l.is_positive() {
-                val[l.index()] = true;
-            }
-        }
-        let code: Vec<Vec<bool>> = e
-            .bits
-            .iter()
-            .map(|row| row.iter().map(|l| val[l.index()]).collect())
-            .collect();
-        let cls = classes_of(ds, &code, k);
-        let mut key: Classes = cls.iter().map(|c| c.normalized()).collect();
-        key.sort_unstable();
-        if !seen.contains(&key) {
-            seen.push(key);
-            found.push(cls);
-            if found.len() >= want.max(1) {
-                break;
-            }
-        }
-        blocked.push(code);
     }
-    if found.is_empty() {
-        Answer::Infeasible
-    } else {
-        Answer::Found(found)
-    }
+    let code = e.code();
+    e.block(&code);
+    let mut found = vec![classes_of(ds, &code, k)];
+    collect(&mut e, ds, k, work, want, &mut found);
+    Answer::Found(found)
 }
 
-/// The first allowance of [`decide_alternating`], in proof bytes.
-pub(crate) const FIRST_ALLOWANCE: u64 = 100_000;
+/// The conflict limit of the first round of [`decide_pair`] (per solver).
+pub(crate) const FIRST_ALLOWANCE: u64 = 2_000;
 
 /// Mask evaluations of the local search ([`crate::local`]) charged as one work unit:
-/// about the time of one proof byte of the solver on the machine it was measured on
-/// (24-state tables of 16 columns: about 350 evaluations and 10 us per step, 1.2 us per
-/// proof byte, load 4).
-pub(crate) const LOCAL_EVALS_PER_UNIT: u64 = 40;
+/// about the time of one conflict of the solver on the machine it was measured on
+/// (24-state tables of 16 columns: about 350 evaluations and 10 us per step; 70 us per
+/// conflict, load 2).
+pub(crate) const LOCAL_EVALS_PER_UNIT: u64 = 2_000;
 
 /// The local search ([`crate::local::search`]) for codes of width `k`, spending at most
 /// `allowance` of `work` (one unit per [`LOCAL_EVALS_PER_UNIT`] mask evaluations).
@@ -506,9 +639,7 @@ pub(crate) fn local_search(
         },
         seed,
     );
-    let spent = out.evals.div_ceil(LOCAL_EVALS_PER_UNIT);
-    work.used = work.used.saturating_add(spent);
-    work.left = work.left.saturating_sub(spent);
+    work.charge(out.evals.div_ceil(LOCAL_EVALS_PER_UNIT));
     work.clock_fired |= out.clock_fired;
     let codes = out.codes?;
     let bits: Vec<Vec<bool>> = codes
@@ -518,15 +649,19 @@ pub(crate) fn local_search(
     Some(classes_of(ds, &bits, k))
 }
 
-/// Decides width `k` by three searches in turn, each from scratch, until one decides or
-/// `work` is spent: the local search from `start` (codes of a wider incumbent, or empty)
-/// finds codes fast; [`Sym::Lex`] refutes; [`Sym::Clique`] does either on some tables.
-/// Round `t` gives the lexicographic encoding `2^t` times [`FIRST_ALLOWANCE`] and the
-/// two others a quarter of that each (measured on 24-state tables: the local search
-/// decides a feasible width at once or not at all, the lexicographic encoding decides
-/// most infeasible ones). The rotation costs about three and a half times the work of
-/// the lexicographic solve alone, and, like every solve, stops on counted work only.
-pub(crate) fn decide_alternating(
+/// Decides width `k` in rounds of doubling allowances. Each round runs the local search
+/// from `start` (codes of a wider incumbent, or empty; a new seed each round) with a
+/// quarter of the round's allowance, then two solvers on the lexicographic encoding at
+/// once, one thread each, one with the option set that finds codes ([`Tuning::Find`])
+/// and one with the set that refutes ([`Tuning::Refute`]), with the round's allowance as
+/// conflict limit (each round continues the solvers' earlier work).
+///
+/// The answer is the same on every run whatever the threads' speeds: the finder's code
+/// wins over the refuter's, the finder stops the refuter only when it finds a code, the
+/// refuter stops the finder only when it proves the width infeasible (then no code
+/// exists), and what is charged is twice the conflicts of the solver that decided (or
+/// both solvers' conflicts when neither was stopped).
+pub(crate) fn decide_pair(
     n: usize,
     ds: &[Dichotomy],
     clique: &[usize],
@@ -535,34 +670,100 @@ pub(crate) fn decide_alternating(
     want: usize,
     start: &[u64],
 ) -> Answer {
-    if clique.len() > k || (k < 64 && n > 1usize << k) {
-        return Answer::Infeasible;
+    if let Some(a) = trivial(n, ds, clique, k) {
+        return a;
     }
+    if let Some(cls) = local_search(n, ds, k, start, work, FIRST_ALLOWANCE / 4, 0) {
+        let mut found = vec![cls];
+        if want > 1 {
+            if let Answer::Found(more) =
+                decide(n, ds, clique, k, work, want, Sym::Clique, Tuning::Find)
+            {
+                for cls in more {
+                    if found.len() < want && !found.contains(&cls) {
+                        found.push(cls);
+                    }
+                }
+            }
+        }
+        return Answer::Found(found);
+    }
+    let stop_finder = Arc::new(AtomicBool::new(false));
+    let stop_refuter = Arc::new(AtomicBool::new(false));
+    let f = formula(n, ds, clique, k, Sym::Lex);
+    let mut refuter = Engine::new(
+        f.clone(),
+        Tuning::Refute,
+        work.deadline,
+        stop_refuter.clone(),
+    );
+    let mut finder = Engine::new(f, Tuning::Find, work.deadline, stop_finder.clone());
+    let finder = &mut finder;
     let mut allowance = FIRST_ALLOWANCE;
-    for round in 0u64.. {
+    for round in 1u64.. {
         if work.spent() {
             return Answer::Stopped;
         }
-        if let Some(cls) = local_search(n, ds, k, start, work, allowance / 4, round) {
+        if let Some(cls) = local_search(n, ds, k, start, work, allowance / 4, round - 1) {
             return Answer::Found(vec![cls]);
         }
-        for (sym, share) in [(Sym::Lex, allowance), (Sym::Clique, allowance / 4)] {
-            if work.spent() {
-                return Answer::Stopped;
+        if work.spent() {
+            return Answer::Stopped;
+        }
+        let each = allowance.min(work.left / 2).max(1);
+        let ((rf, cf), (rr, cr)) = std::thread::scope(|sc| {
+            let h = sc.spawn(|| {
+                let b = finder.learned();
+                let r = finder.run(each);
+                if r == Run::Sat {
+                    stop_refuter.store(true, Ordering::Relaxed);
+                }
+                (r, finder.learned() - b)
+            });
+            let b = refuter.learned();
+            let r = refuter.run(each);
+            if r == Run::Unsat {
+                stop_finder.store(true, Ordering::Relaxed);
             }
-            let whole = share >= work.left;
-            let mut part = work.part(share);
-            let a = decide(n, ds, clique, k, &mut part, want, sym);
-            work.absorb(&part);
-            if a != Answer::Stopped {
-                return a;
-            }
-            if whole {
-                // The sink refuses a whole buffer of proof beyond the limit, so a stop
-                // can leave a remainder too small for any solve: all is spent.
-                work.left = 0;
-                return a;
-            }
+            let own = (r, refuter.learned() - b);
+            (h.join().unwrap_or((Run::Interrupted, 0)), own)
+        });
+        if finder.clock_fired() || refuter.clock_fired() {
+            work.clock_fired = true;
+        }
+        if rf == Run::Sat {
+            work.charge(2 * cf);
+            let code = finder.code();
+            finder.block(&code);
+            let mut found = vec![classes_of(ds, &code, k)];
+            collect(finder, ds, k, work, want, &mut found);
+            return Answer::Found(found);
+        }
+        if rr == Run::Unsat {
+            work.charge(2 * cr);
+            return Answer::Infeasible;
+        }
+        if rf == Run::Interrupted || rr == Run::Interrupted {
+            // Only the deadline can interrupt here (neither solver decided).
+            work.charge(cf + cr);
+            work.clock_fired = true;
+            return Answer::Stopped;
+        }
+        work.charge(cf + cr);
+        if rf == Run::Unsat {
+            return Answer::Infeasible;
+        }
+        if rr == Run::Sat {
+            let code = refuter.code();
+            refuter.block(&code);
+            let mut found = vec![classes_of(ds, &code, k)];
+            collect(&mut refuter, ds, k, work, want, &mut found);
+            return Answer::Found(found);
+        }
+        if each < allowance {
+            // The last of the work went to this round.
+            work.left = 0;
+            return Answer::Stopped;
         }
         allowance = allowance.saturating_mul(2);
     }
@@ -606,8 +807,42 @@ mod tests {
             return;
         }
         let sym = [Sym::Clique, Sym::Lex][v[4] as usize];
+        let tuning = if std::env::var("SP_FIND").is_ok() {
+            Tuning::Find
+        } else {
+            Tuning::Refute
+        };
+        if let Ok(path) = std::env::var("SP_DUMP") {
+            let (f, _) = formula(p.num_states, &ds, &clique, v[3] as usize, sym);
+            std::fs::write(path, f.dimacs()).unwrap();
+        }
+        if std::env::var("SP_PAIR").is_ok() {
+            let mut w = Work::new(v[5], None);
+            let a = decide_pair(p.num_states, &ds, &clique, v[3] as usize, &mut w, 1, &[]);
+            println!(
+                "PROBE pair {:?}: used {}, {:.3} s, {}",
+                v,
+                w.used,
+                t0.elapsed().as_secs_f64(),
+                match a {
+                    Answer::Found(_) => "found",
+                    Answer::Infeasible => "infeasible",
+                    Answer::Stopped => "stopped",
+                }
+            );
+            return;
+        }
         let mut w = Work::new(v[5], None);
-        let a = decide(p.num_states, &ds, &clique, v[3] as usize, &mut w, 1, sym);
+        let a = decide(
+            p.num_states,
+            &ds,
+            &clique,
+            v[3] as usize,
+            &mut w,
+            1,
+            sym,
+            tuning,
+        );
         println!(
             "PROBE {:?} k {} {:?}: {} dichotomies, clique {}, used {}, {:.3} s",
             v,
@@ -636,15 +871,41 @@ mod tests {
         let ds = required_for(&p).unwrap();
         let clique = crate::tracey::incompatible_clique(&ds, 8);
         assert_eq!(
-            decide(5, &ds, &clique, 2, &mut Work::unlimited(), 1, Sym::Clique),
+            decide(
+                5,
+                &ds,
+                &clique,
+                2,
+                &mut Work::unlimited(),
+                1,
+                Sym::Clique,
+                Tuning::Find
+            ),
             Answer::Infeasible
         );
         assert_eq!(
-            decide(5, &ds, &[], 2, &mut Work::unlimited(), 1, Sym::Clique),
+            decide(
+                5,
+                &ds,
+                &[],
+                2,
+                &mut Work::unlimited(),
+                1,
+                Sym::Clique,
+                Tuning::Find
+            ),
             Answer::Infeasible
         );
-        let Answer::Found(f) = decide(5, &ds, &clique, 3, &mut Work::unlimited(), 4, Sym::Clique)
-        else {
+        let Answer::Found(f) = decide(
+            5,
+            &ds,
+            &clique,
+            3,
+            &mut Work::unlimited(),
+            4,
+            Sym::Clique,
+            Tuning::Find,
+        ) else {
             panic!("3 variables suffice")
         };
         assert_eq!(f.len(), 1, "the optimum is unique");
@@ -653,10 +914,28 @@ mod tests {
         }
         // The lexicographic encoding gives the same answers.
         assert_eq!(
-            decide(5, &ds, &[], 2, &mut Work::unlimited(), 1, Sym::Lex),
+            decide(
+                5,
+                &ds,
+                &[],
+                2,
+                &mut Work::unlimited(),
+                1,
+                Sym::Lex,
+                Tuning::Refute
+            ),
             Answer::Infeasible
         );
-        let Answer::Found(g) = decide(5, &ds, &[], 3, &mut Work::unlimited(), 4, Sym::Lex) else {
+        let Answer::Found(g) = decide(
+            5,
+            &ds,
+            &[],
+            3,
+            &mut Work::unlimited(),
+            4,
+            Sym::Lex,
+            Tuning::Refute,
+        ) else {
             panic!("3 variables suffice")
         };
         assert_eq!(g.len(), 1, "the optimum is unique");
@@ -679,24 +958,36 @@ mod tests {
             assert!(bb.optimal, "seed {seed}");
             let w = bb.classes[0].len().max(1);
             let clique = crate::tracey::incompatible_clique(&ds, 8);
+            let n = p.num_states;
             for sym in [Sym::Clique, Sym::Lex] {
-                let n = p.num_states;
-                let below = decide(n, &ds, &clique, w - 1, &mut Work::unlimited(), 1, sym);
-                assert_eq!(below, Answer::Infeasible, "seed {seed} {sym:?}");
-                let Answer::Found(f) = decide(n, &ds, &clique, w, &mut Work::unlimited(), 2, sym)
-                else {
-                    panic!("seed {seed} {sym:?}: width {w} is feasible")
-                };
-                for cls in &f {
-                    assert!(ds.iter().all(|d| cls.iter().any(|c| c.covers(*d))));
+                for tuning in [Tuning::Find, Tuning::Refute] {
+                    let mut w0 = Work::unlimited();
+                    let below = decide(n, &ds, &clique, w - 1, &mut w0, 1, sym, tuning);
+                    assert_eq!(below, Answer::Infeasible, "seed {seed} {sym:?}");
+                    let mut w1 = Work::unlimited();
+                    let Answer::Found(f) = decide(n, &ds, &clique, w, &mut w1, 2, sym, tuning)
+                    else {
+                        panic!("seed {seed} {sym:?}: width {w} is feasible")
+                    };
+                    for cls in &f {
+                        assert!(ds.iter().all(|d| cls.iter().any(|c| c.covers(*d))));
+                    }
                 }
             }
+            // The two solvers at once give the same answers.
+            let below = decide_pair(n, &ds, &clique, w - 1, &mut Work::unlimited(), 1, &[]);
+            assert_eq!(below, Answer::Infeasible, "seed {seed} pair");
+            let Answer::Found(f) = decide_pair(n, &ds, &clique, w, &mut Work::unlimited(), 1, &[])
+            else {
+                panic!("seed {seed} pair: width {w} is feasible")
+            };
+            assert!(ds.iter().all(|d| f[0].iter().any(|c| c.covers(*d))));
         }
     }
 
     #[test]
-    fn several_solutions_with_a_deadline_do_not_panic() {
-        // Regression: blocking clauses added after a solve made the proof writer panic.
+    fn several_solutions_with_a_deadline() {
+        // Further solutions come from incremental solves with blocking clauses.
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
         let later = Instant::now() + std::time::Duration::from_secs(30);
@@ -708,6 +999,7 @@ mod tests {
             &mut Work::new(1 << 30, Some(later)),
             4,
             Sym::Clique,
+            Tuning::Find,
         );
         let Answer::Found(f) = a else {
             panic!("4 variables suffice")
@@ -719,7 +1011,7 @@ mod tests {
     fn deadline_in_the_past_stops() {
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();
-        // A tiny instance may finish before the proof buffer is written, so accept both;
+        // A tiny instance may finish before the deadline is polled, so accept both;
         // what must not happen is a wrong infeasibility.
         let past = Instant::now();
         let a = decide(
@@ -730,6 +1022,7 @@ mod tests {
             &mut Work::new(u64::MAX - 1, Some(past)),
             1,
             Sym::Clique,
+            Tuning::Find,
         );
         assert!(matches!(a, Answer::Found(_) | Answer::Stopped));
     }
@@ -742,7 +1035,7 @@ mod tests {
         let ds = required_for(&p).unwrap();
         let mut w = Work::new(0, None);
         assert_eq!(
-            decide(5, &ds, &[], 3, &mut w, 1, Sym::Clique),
+            decide(5, &ds, &[], 3, &mut w, 1, Sym::Clique, Tuning::Find),
             Answer::Stopped
         );
         assert!(!w.clock_fired);
@@ -752,7 +1045,7 @@ mod tests {
         let runs: Vec<(Answer, u64)> = (0..2)
             .map(|_| {
                 let mut w = Work::new(20_000, None);
-                let a = decide(16, &ds, &[], 5, &mut w, 1, Sym::Clique);
+                let a = decide(16, &ds, &[], 5, &mut w, 1, Sym::Clique, Tuning::Find);
                 (a, w.used)
             })
             .collect();

@@ -23,8 +23,9 @@
 //! The branch and bound gets at most `BB_NODES` (20 000) nodes (it settles small tables at once);
 //! if it has not proven its width, a local search (module `local`) looks for narrower
 //! codes below the incumbent, then widths upward from the bound are decided by the local
-//! search and a SAT decision procedure for one width (module `sat`, two encodings on the
-//! dichotomies) in turn, each infeasible width raising the bound.
+//! search and a SAT decision procedure for one width (module `sat`: two solvers on the
+//! dichotomies at once, one tuned to find codes, one to refute), each infeasible width
+//! raising the bound.
 //!
 //! **Heuristic** ([`Method::TraceyFast`](crate::Method::TraceyFast)): first-fit packing of the dichotomies into variables, in a
 //! few deterministic orders, keeping the narrowest; its gap to the lower bound is reported.
@@ -449,8 +450,8 @@ pub(crate) struct ExactResult {
 /// tables faster than building SAT instances, and is deterministic (node-limited).
 pub(crate) const BB_NODES: u64 = 20_000;
 
-/// The deterministic limits of one exact run: branch-and-bound nodes, SAT work (bytes of
-/// proof output, see [`crate::sat::Work`]), and the wall-clock safety net.
+/// The deterministic limits of one exact run: branch-and-bound nodes, SAT work (learned
+/// clauses, see [`crate::sat::Work`]), and the wall-clock safety net.
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Limits {
     pub(crate) nodes: u64,
@@ -492,14 +493,10 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
 /// searched for by the local search alone (each start from the incumbent's codes, at most
 /// an eighth of the allowance in all, per width four first allowances or, for the last
-/// open width, a quarter of one) while it finds
-/// codes; then widths `lb, lb + 1, ...`
-/// upward are decided ([`crate::sat::decide_alternating`]: local search, the
-/// lexicographic and the clique encodings in turn), each proven infeasible raising the
-/// bound, until one is feasible (it is then optimal) or the allowance stops a solve. The
-/// last open width, when the local search found nothing there, gets one cheap round of
-/// the three searches, then one lexicographic solve with three quarters of the
-/// remaining work.
+/// open width, a quarter of one) while it finds codes; then widths `lb, lb + 1, ...`
+/// upward are decided ([`crate::sat::decide_pair`]: local search, then a solver tuned to
+/// find codes and one tuned to refute, at once), each proven infeasible raising the
+/// bound, until one is feasible (it is then optimal) or the allowance stops a solve.
 pub(crate) fn exact_sat(
     p: &Problem,
     ds: &[Dichotomy],
@@ -509,7 +506,7 @@ pub(crate) fn exact_sat(
     lower_bound: usize,
     nodes: u64,
 ) -> ExactResult {
-    use crate::sat::{decide, decide_alternating, local_search, Answer, Sym};
+    use crate::sat::{decide, decide_pair, local_search, Answer, Sym, Tuning};
     let clique = incompatible_clique(ds, ds.len().min(512));
     let n = p.num_states;
     let mut lb = lower_bound.max(log2_bound(n)).max(clique.len());
@@ -521,7 +518,6 @@ pub(crate) fn exact_sat(
     } else {
         work.left / 8
     });
-    let mut local_failed = None;
     while ub > lb && !down.spent() {
         let start = start_of(&best[0]);
         // Each width at most a quarter of a first allowance when it is the last open
@@ -537,36 +533,14 @@ pub(crate) fn exact_sat(
                 ub -= 1;
                 best = vec![cls];
             }
-            None => {
-                local_failed = Some(ub - 1);
-                break;
-            }
+            None => break,
         }
     }
     work.absorb(&down);
     // Upward, decided.
     while lb < ub && !work.spent() {
         let start = start_of(&best[0]);
-        let mut answer = Answer::Stopped;
-        if lb + 1 == ub && local_failed == Some(lb) {
-            // The last open width, where the local search found nothing: after one
-            // cheap round of all three searches, most likely infeasible, so one
-            // lexicographic solve gets three quarters of the work (restarting it with
-            // doubling allowances would cost about three times).
-            let mut part = work.part(crate::sat::FIRST_ALLOWANCE * 3 / 2);
-            answer = decide_alternating(n, ds, &clique, lb, &mut part, want, &start);
-            work.absorb(&part);
-        }
-        if answer == Answer::Stopped && lb + 1 == ub && local_failed == Some(lb) && !work.spent() {
-            let share = work.left - work.left / 4;
-            let mut part = work.part(share);
-            answer = decide(n, ds, &clique, lb, &mut part, want, Sym::Lex);
-            work.absorb(&part);
-        }
-        if answer == Answer::Stopped && !work.spent() {
-            answer = decide_alternating(n, ds, &clique, lb, work, want, &start);
-        }
-        match answer {
+        match decide_pair(n, ds, &clique, lb, work, want, &start) {
             Answer::Found(f) => {
                 ub = lb;
                 best = f;
@@ -578,7 +552,17 @@ pub(crate) fn exact_sat(
     if lb >= ub && want > best.len() && !work.spent() {
         // Alternatives at the optimal width.
         let mut part = work.part(work.left / 4);
-        if let Answer::Found(f) = decide(n, ds, &clique, ub, &mut part, want, Sym::Clique) {
+        let alt = decide(
+            n,
+            ds,
+            &clique,
+            ub,
+            &mut part,
+            want,
+            Sym::Clique,
+            Tuning::Find,
+        );
+        if let Answer::Found(f) = alt {
             if f.len() > best.len() {
                 best = f;
             }
