@@ -481,25 +481,40 @@ impl<'a> Engine<'a> {
 /// when `most_first`, else fewest first), ties by position: the order of a sort on
 /// `(literals, position)`, by counting (literal counts are at most 64).
 fn by_literals(cubes: &[Option<Cube>], most_first: bool) -> Vec<usize> {
+    order_by(
+        cubes,
+        |c| match c {
+            Some(c) => Some(c.literal_count()),
+            None if most_first => None,
+            None => Some(0),
+        },
+        most_first,
+    )
+}
+
+/// [`by_literals`] of a list of products (none removed).
+fn by_literals_of(cubes: &[Cube], most_first: bool) -> Vec<usize> {
+    order_by(cubes, |c| Some(c.literal_count()), most_first)
+}
+
+/// The positions of `items` with a literal count (`lits`; `None` leaves one out), by
+/// count (most first when `most_first`), ties by position.
+fn order_by<T>(items: &[T], lits: impl Fn(&T) -> Option<usize>, most_first: bool) -> Vec<usize> {
     let mut start = [0usize; 66];
-    let key = |c: &Option<Cube>| {
-        let l = c.map_or(0, |c| c.literal_count());
-        if most_first {
-            64 - l
-        } else {
-            l
-        }
-    };
-    let skip = |c: &Option<Cube>| most_first && c.is_none();
-    for c in cubes.iter().filter(|c| !skip(c)) {
-        start[key(c) + 1] += 1;
+    let key = |l: usize| if most_first { 64 - l } else { l };
+    for l in items.iter().filter_map(&lits) {
+        start[key(l) + 1] += 1;
     }
     for i in 1..start.len() {
         start[i] += start[i - 1];
     }
     let mut order = vec![0usize; start[65]];
-    for (k, c) in cubes.iter().enumerate().filter(|(_, c)| !skip(c)) {
-        let b = &mut start[key(c)];
+    for (k, l) in items
+        .iter()
+        .enumerate()
+        .filter_map(|(k, c)| lits(c).map(|l| (k, l)))
+    {
+        let b = &mut start[key(l)];
         order[*b] = k;
         *b += 1;
     }
@@ -610,8 +625,7 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
                 true
             });
         }
-        let some: Vec<Option<Cube>> = cover.iter().copied().map(Some).collect();
-        let by_size = by_literals(&some, true);
+        let by_size = by_literals_of(cover, true);
         by_size
             .par_iter()
             .with_min_len(4096)
