@@ -182,7 +182,7 @@ impl<'a> Engine<'a> {
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if st[p | 1 << v] == ON {
+                    if on_at(on_bits, p | 1 << v) {
                         let x = &mut pairs[pair_slot(on_bits, on_below, n, p, v)];
                         if *x != u8::MAX {
                             *x = if up { *x + 1 } else { *x - 1 };
@@ -312,7 +312,7 @@ impl<'a> Engine<'a> {
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if self.st[p | 1 << v] == ON {
+                    if on_at(&self.on_bits, p | 1 << v) {
                         let x = self.pairs[self.slot(p, v)];
                         if x < 2 || x == u8::MAX {
                             return false;
@@ -391,7 +391,7 @@ impl<'a> Engine<'a> {
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if self.st[p | 1 << v] != ON || self.pairs[self.slot(p, v)] > 0 {
+                    if !on_at(&self.on_bits, p | 1 << v) || self.pairs[self.slot(p, v)] > 0 {
                         continue;
                     }
                     let c = Cube::from_words(self.full & !(1 << v), p as u64);
@@ -432,7 +432,7 @@ impl<'a> Engine<'a> {
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    let x = if self.st[p | 1 << v] == ON {
+                    let x = if on_at(&self.on_bits, p | 1 << v) {
                         self.pairs[self.slot(p, v)]
                     } else {
                         0
@@ -519,6 +519,13 @@ fn order_by<T>(items: &[T], lits: impl Fn(&T) -> Option<usize>, most_first: bool
         *b += 1;
     }
     order
+}
+
+/// Whether point `q` is in the on-set, from the on-set bitset (static mode: an eighth
+/// of the state table, read at the scattered neighbours of the pair loops).
+#[inline]
+fn on_at(on_bits: &[u64], q: usize) -> bool {
+    on_bits[q >> 6] >> (q & 63) & 1 == 1
 }
 
 /// [`Engine::slot`] from the on-set bitset and its counts per word.
