@@ -33,7 +33,7 @@ fn main() {
             times.push(dt);
             println!(
                 "{rows}x{} seed {seed}: width {} lower bound {} optimal {:?} {:.3} s, \
-                 sat work {} bytes, nodes {}, clock stopped {}",
+                 sat work {} units, nodes {}, clock stopped {}",
                 1 << inputs,
                 a.codes.width(),
                 a.lower_bound,

@@ -778,7 +778,9 @@ mod tests {
     #[test]
     #[ignore]
     fn probe() {
-        // Manual measurement: SP_PROBE="rows inputs seed k mode bytes".
+        // Manual measurement: SP_PROBE="rows inputs seed k mode units" (mode 0 clique, 1
+        // lexicographic, 2 local search); SP_FIND: the finder's option set; SP_PAIR: both
+        // solvers at once; SP_DUMP=path: the formula in DIMACS.
         let v: Vec<u64> = std::env::var("SP_PROBE")
             .unwrap()
             .split_whitespace()
@@ -1029,7 +1031,7 @@ mod tests {
 
     #[test]
     fn a_spent_allowance_stops_the_same_way_every_time() {
-        // A zero allowance stops before any proof byte; a small one stops at the same
+        // A zero allowance stops before any conflict; a small one stops at the same
         // point on every run (the solver is deterministic), whatever the clock says.
         let p = crate::dichotomy::tests::tracey1();
         let ds = required_for(&p).unwrap();

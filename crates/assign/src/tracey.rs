@@ -440,7 +440,7 @@ pub(crate) struct ExactResult {
     pub(crate) optimal: bool,
     pub(crate) nodes: u64,
     pub(crate) clique: usize,
-    /// Work units (bytes of proof output) the SAT engine spent.
+    /// Work units (conflicts, see [`crate::sat::Work`]) the SAT engine spent.
     pub(crate) sat_work: u64,
     /// Whether the wall-clock safety net, not a work limit, stopped a search.
     pub(crate) clock_fired: bool,
