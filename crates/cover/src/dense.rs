@@ -67,7 +67,8 @@ pub(crate) struct Engine<'a> {
     /// `n`, which keeps these random accesses in fewer pages), saturating at 255 (a
     /// saturated count is never trusted to allow a removal).
     pairs: Vec<u8>,
-    /// Static mode: the on-set points as a bitset, and how many lie below each word.
+    /// The on-set points as a bitset (the hot loops read a point's state here: an
+    /// eighth of the state table) and, in static mode, how many lie below each word.
     on_bits: Vec<u64>,
     on_below: Vec<u32>,
     /// Products holding each required cube.
@@ -90,16 +91,16 @@ impl<'a> Engine<'a> {
             .zip(nb)
             .map(|(&s, &m)| if s == ON { fresh_weight(n, m) } else { 0 })
             .collect();
-        let (mut on_bits, mut on_below) = (Vec::new(), Vec::new());
+        let on_bits: Vec<u64> = st
+            .chunks(64)
+            .map(|w| {
+                w.iter()
+                    .enumerate()
+                    .fold(0u64, |a, (i, &x)| a | u64::from(x == ON) << i)
+            })
+            .collect();
+        let mut on_below = Vec::new();
         if s.adjacent_pairs {
-            on_bits = st
-                .chunks(64)
-                .map(|w| {
-                    w.iter()
-                        .enumerate()
-                        .fold(0u64, |a, (i, &x)| a | u64::from(x == ON) << i)
-                })
-                .collect();
             let mut below = 0u32;
             on_below = on_bits
                 .iter()
@@ -112,6 +113,7 @@ impl<'a> Engine<'a> {
         }
         let on_count = on_bits
             .iter()
+            .filter(|_| s.adjacent_pairs)
             .map(|w| w.count_ones() as usize)
             .sum::<usize>();
         Engine {
@@ -152,18 +154,12 @@ impl<'a> Engine<'a> {
     fn paint(&mut self, c: &Cube, up: bool) {
         let n = self.n;
         let free = self.full & !c.care_bits();
-        let (cnt, pairs, st, wt, nb) = (
-            &mut self.cnt,
-            &mut self.pairs,
-            self.st,
-            &mut self.wt,
-            self.nb,
-        );
+        let (cnt, pairs, wt, nb) = (&mut self.cnt, &mut self.pairs, &mut self.wt, self.nb);
         let (on_bits, on_below) = (&self.on_bits, &self.on_below);
-        let pairs_on = !on_bits.is_empty();
+        let pairs_on = !pairs.is_empty();
         each_point(c, n, |p| {
             // Only on-set points are counted (no count of another point is read).
-            if st[p] != ON {
+            if !on_at(on_bits, p) {
                 return true;
             }
             if up {
@@ -301,7 +297,7 @@ impl<'a> Engine<'a> {
         let free = self.full & !c.care_bits();
         let pairs_on = !self.pairs.is_empty();
         let points_ok = each_point(c, n, |p| {
-            if self.st[p] != ON {
+            if !on_at(&self.on_bits, p) {
                 return true;
             }
             if self.cnt[p] < 2 {
@@ -521,8 +517,8 @@ fn order_by<T>(items: &[T], lits: impl Fn(&T) -> Option<usize>, most_first: bool
     order
 }
 
-/// Whether point `q` is in the on-set, from the on-set bitset (static mode: an eighth
-/// of the state table, read at the scattered neighbours of the pair loops).
+/// Whether point `q` is in the on-set, from the on-set bitset (an eighth of the state
+/// table, read at scattered points by the paint, removal and pair loops).
 #[inline]
 fn on_at(on_bits: &[u64], q: usize) -> bool {
     on_bits[q >> 6] >> (q & 63) & 1 == 1
