@@ -1625,7 +1625,7 @@ mod tests {
                     let mut r = vec![0u64; words];
                     let k = 1 + (a % 5) as usize;
                     for j in 0..k {
-                        let c = ((b >> (j * 8)) as usize * 31 + j) % ncols;
+                        let c = (((b >> (j * 8)) & 0xff) as usize * 31 + j) % ncols;
                         set(&mut r, c);
                     }
                     r
