@@ -649,7 +649,8 @@ pub(crate) fn local_search(
     Some(classes_of(ds, &bits, k))
 }
 
-/// Decides width `k` in rounds of doubling allowances. Each round runs the local search
+/// Decides width `k` in rounds of doubling allowances (codes found by the solvers come
+/// with up to `want` distinct class sets, by blocking clauses). Each round runs the local search
 /// from `start` (codes of a wider incumbent, or empty; a new seed each round) with a
 /// quarter of the round's allowance, then two solvers on the lexicographic encoding at
 /// once, one thread each, one with the option set that finds codes ([`Tuning::Find`])
@@ -673,20 +674,10 @@ pub(crate) fn decide_pair(
     if let Some(a) = trivial(n, ds, clique, k) {
         return a;
     }
+    // A code from the local search comes alone: the caller asks for alternatives with a
+    // bounded part of the work.
     if let Some(cls) = local_search(n, ds, k, start, work, FIRST_ALLOWANCE / 4, 0) {
-        let mut found = vec![cls];
-        if want > 1 {
-            if let Answer::Found(more) =
-                decide(n, ds, clique, k, work, want, Sym::Clique, Tuning::Find)
-            {
-                for cls in more {
-                    if found.len() < want && !found.contains(&cls) {
-                        found.push(cls);
-                    }
-                }
-            }
-        }
-        return Answer::Found(found);
+        return Answer::Found(vec![cls]);
     }
     let stop_finder = Arc::new(AtomicBool::new(false));
     let stop_refuter = Arc::new(AtomicBool::new(false));
