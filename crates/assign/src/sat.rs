@@ -121,14 +121,20 @@ pub(crate) enum Answer {
     Stopped,
 }
 
-/// The state in the most dichotomies (lowest index on a tie).
-fn pivot(n: usize, ds: &[Dichotomy]) -> usize {
+/// How many dichotomies each of the `n` states is in.
+fn counts(n: usize, ds: &[Dichotomy]) -> Vec<usize> {
     let mut count = vec![0usize; n];
     for d in ds {
         for s in ones(d.left | d.right) {
             count[s] += 1;
         }
     }
+    count
+}
+
+/// The state in the most dichotomies (lowest index on a tie).
+fn pivot(n: usize, ds: &[Dichotomy]) -> usize {
+    let count = counts(n, ds);
     (0..n)
         .max_by_key(|&s| (count[s], std::cmp::Reverse(s)))
         .unwrap_or(0)
@@ -287,12 +293,7 @@ fn lex_order(f: &mut Cnf, bits: &[Vec<i32>], ds: &[Dichotomy], r: usize) {
     if k < 2 {
         return;
     }
-    let mut count = vec![0usize; n];
-    for d in ds {
-        for s in ones(d.left | d.right) {
-            count[s] += 1;
-        }
-    }
+    let count = counts(n, ds);
     let mut rows: Vec<usize> = (0..n).filter(|&s| s != r).collect();
     rows.sort_by_key(|&s| (std::cmp::Reverse(count[s]), s));
     let strict = n > 64 || (1u64 << (n - 1)) >= k as u64;
@@ -433,6 +434,20 @@ impl Engine {
         }
     }
 
+    /// [`Engine::run`] with all the work left, charged to `work`; a conflict limit spends
+    /// it all, a deadline is recorded.
+    fn solve_charged(&mut self, work: &mut Work) -> Run {
+        let before = self.learned();
+        let r = self.run(work.left);
+        work.charge(self.learned() - before);
+        match r {
+            Run::Limit => work.left = 0,
+            Run::Interrupted => work.clock_fired |= self.clock_fired(),
+            Run::Sat | Run::Unsat => {}
+        }
+        r
+    }
+
     /// The bit matrix of the last model.
     fn code(&self) -> Vec<Vec<bool>> {
         self.bits
@@ -501,55 +516,35 @@ fn trivial(n: usize, ds: &[Dichotomy], clique: &[usize], k: usize) -> Option<Ans
     None
 }
 
-/// Further codes from `e` after a satisfiable solve: blocks each bit matrix seen and
-/// solves again (incrementally), up to `want` distinct class sets in `found`, at most
-/// `4 * want` solves in all. Returns whether the formula became unsatisfiable or the
-/// work ran out.
-fn collect(
-    e: &mut Engine,
-    ds: &[Dichotomy],
-    k: usize,
-    work: &mut Work,
-    want: usize,
-    found: &mut Vec<Classes>,
-) {
-    let mut seen: Vec<Classes> = found
-        .iter()
-        .map(|cls| {
-            let mut key: Classes = cls.iter().map(|c| c.normalized()).collect();
-            key.sort_unstable();
-            key
-        })
-        .collect();
-    for _ in 1..want.max(1) * 4 {
-        if found.len() >= want.max(1) || work.spent() {
-            return;
-        }
-        let before = e.learned();
-        let r = e.run(work.left);
-        work.charge(e.learned() - before);
-        match r {
-            Run::Sat => {}
-            Run::Unsat => return,
-            Run::Limit => {
-                work.left = 0;
-                return;
-            }
-            Run::Interrupted => {
-                work.clock_fired |= e.clock_fired();
-                return;
-            }
+/// A class set in a form that does not depend on orientations or variable order.
+fn class_key(cls: &[Dichotomy]) -> Classes {
+    let mut key: Classes = cls.iter().map(|c| c.normalized()).collect();
+    key.sort_unstable();
+    key
+}
+
+/// The codes of `e` after a satisfiable solve: this model's classes, then further models
+/// (each bit matrix seen blocked, incremental solves) until `want` distinct class sets,
+/// the work runs out, no model is left, or `4 * want` solves in all.
+fn harvest(e: &mut Engine, ds: &[Dichotomy], k: usize, work: &mut Work, want: usize) -> Answer {
+    let mut found: Vec<Classes> = Vec::new();
+    let mut seen: Vec<Classes> = Vec::new();
+    for solve in 0..want.max(1) * 4 {
+        if solve > 0
+            && (found.len() >= want.max(1) || work.spent() || e.solve_charged(work) != Run::Sat)
+        {
+            break;
         }
         let code = e.code();
         e.block(&code);
         let cls = classes_of(ds, &code, k);
-        let mut key: Classes = cls.iter().map(|c| c.normalized()).collect();
-        key.sort_unstable();
+        let key = class_key(&cls);
         if !seen.contains(&key) {
             seen.push(key);
             found.push(cls);
         }
     }
+    Answer::Found(found)
 }
 
 /// Decides width `k` for `n` states and the required dichotomies `ds` with one solver
@@ -581,26 +576,11 @@ pub(crate) fn decide(
         work.deadline,
         cancel,
     );
-    let before = e.learned();
-    let r = e.run(work.left);
-    work.charge(e.learned() - before);
-    match r {
-        Run::Sat => {}
-        Run::Unsat => return Answer::Infeasible,
-        Run::Limit => {
-            work.left = 0;
-            return Answer::Stopped;
-        }
-        Run::Interrupted => {
-            work.clock_fired |= e.clock_fired();
-            return Answer::Stopped;
-        }
+    match e.solve_charged(work) {
+        Run::Sat => harvest(&mut e, ds, k, work, want),
+        Run::Unsat => Answer::Infeasible,
+        Run::Limit | Run::Interrupted => Answer::Stopped,
     }
-    let code = e.code();
-    e.block(&code);
-    let mut found = vec![classes_of(ds, &code, k)];
-    collect(&mut e, ds, k, work, want, &mut found);
-    Answer::Found(found)
 }
 
 /// The conflict limit of the first round of [`decide_pair`] (per solver).
@@ -724,11 +704,7 @@ pub(crate) fn decide_pair(
         }
         if rf == Run::Sat {
             work.charge(2 * cf);
-            let code = finder.code();
-            finder.block(&code);
-            let mut found = vec![classes_of(ds, &code, k)];
-            collect(finder, ds, k, work, want, &mut found);
-            return Answer::Found(found);
+            return harvest(finder, ds, k, work, want);
         }
         if rr == Run::Unsat {
             work.charge(2 * cr);
@@ -745,11 +721,7 @@ pub(crate) fn decide_pair(
             return Answer::Infeasible;
         }
         if rr == Run::Sat {
-            let code = refuter.code();
-            refuter.block(&code);
-            let mut found = vec![classes_of(ds, &code, k)];
-            collect(&mut refuter, ds, k, work, want, &mut found);
-            return Answer::Found(found);
+            return harvest(&mut refuter, ds, k, work, want);
         }
         if each < allowance {
             // The last of the work went to this round.
