@@ -298,6 +298,8 @@ pub(crate) fn prepare_within(
         let cube = t.cube(n);
         let p = Cube::minterm(n, one_end);
         let mut req = Vec::new();
+        // Whether the table already gave `req` (and found no hazard).
+        let mut scanned = false;
         // With a table and a small transition cube: `[P, C]` for every on-set point
         // `C` of the cube (the same containment-maximal set as the per-cube
         // supercubes below, which also hold `[P, C]` for their farthest point); when
@@ -312,24 +314,12 @@ pub(crate) fn prepare_within(
                 req.push(r);
                 tb.off_witness(&r).is_none()
             });
-            if clean {
-                scc(&mut req);
-                for r in req {
-                    spec.required.push(Required {
-                        cube: r,
-                        transition: *t,
-                    });
-                }
-                spec.privileged.push(Privileged {
-                    cube,
-                    start: p,
-                    transition: *t,
-                });
-                continue;
+            scanned = clean;
+            if !clean {
+                req.clear();
             }
-            req.clear();
         }
-        for q in &spec.on {
+        for q in spec.on.iter().filter(|_| !scanned) {
             let Some(part) = q.intersection(&cube) else {
                 continue;
             };
