@@ -77,7 +77,7 @@ pub enum Method {
     TraceyFast,
     /// Liu's universal assignment.
     Liu,
-    /// Tan's universal assignment.
+    /// The `tan` slot: a pruned linear universal code (see `docs/assign.md`).
     Tan,
     /// Unit-distance codes.
     Adjacent,
@@ -85,16 +85,16 @@ pub enum Method {
     OneHot,
 }
 
-impl Method {
-    /// The name used on the command line and in reports.
-    pub fn name(self) -> &'static str {
-        match self {
-            Method::Tracey => "tracey",
-            Method::TraceyFast => "tracey-fast",
-            Method::Liu => "liu",
-            Method::Tan => "tan",
-            Method::Adjacent => "adjacent",
-            Method::OneHot => "one-hot",
+impl From<Method> for stillpoint_assign::Method {
+    fn from(m: Method) -> Self {
+        use stillpoint_assign::Method as M;
+        match m {
+            Method::Tracey => M::Tracey,
+            Method::TraceyFast => M::TraceyFast,
+            Method::Liu => M::Liu,
+            Method::Tan => M::Tan,
+            Method::Adjacent => M::Adjacent,
+            Method::OneHot => M::OneHot,
         }
     }
 }

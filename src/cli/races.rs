@@ -1,6 +1,6 @@
 //! `stillpoint assign` and `stillpoint races`: one library call each, then printing.
 
-use super::args::{AssignArgs, Method as ArgMethod, RacesArgs};
+use super::args::{AssignArgs, RacesArgs};
 use super::check::load_table;
 use super::{print_json, read_input, CliError, CliResult};
 use serde_json::{json, Map, Value};
@@ -12,17 +12,6 @@ use stillpoint_assign::{
     Method,
 };
 use stillpoint_table::{collapse_chains, CollapseError, FlowTable, StateId};
-
-fn method(m: ArgMethod) -> Method {
-    match m {
-        ArgMethod::Tracey => Method::Tracey,
-        ArgMethod::TraceyFast => Method::TraceyFast,
-        ArgMethod::Liu => Method::Liu,
-        ArgMethod::Tan => Method::Tan,
-        ArgMethod::Adjacent => Method::Adjacent,
-        ArgMethod::OneHot => Method::OneHot,
-    }
-}
 
 fn budget(secs: f64) -> Result<Duration, CliError> {
     Duration::try_from_secs_f64(secs).map_err(|_| {
@@ -79,7 +68,7 @@ fn checked_race_free(t: &FlowTable, a: &Assignment) -> bool {
 /// Runs `assign`.
 pub fn run_assign(args: &AssignArgs) -> CliResult {
     let given = load_table(&args.table)?;
-    let m = method(args.method);
+    let m = Method::from(args.method);
     let t = match collapse_chains(&given) {
         Ok(t) => t,
         Err(e) => return oscillation(&given, &e, args.common.json, json!({ "method": m.name() })),
@@ -117,7 +106,7 @@ pub fn run_assign(args: &AssignArgs) -> CliResult {
     let race_free = checked_race_free(&t, &a);
     if args.common.json {
         print_json(&json!({
-            "method": args.method.name(),
+            "method": m.name(),
             "states": t.num_states(),
             "variables": a.codes.width(),
             "lower_bound": a.lower_bound,

@@ -13,18 +13,6 @@ use stillpoint::verilog::{self, Header, VerilogError};
 /// The bundled demonstration table.
 const DEMO: &str = include_str!("../../demos/interlock.flow");
 
-fn method(m: Method) -> stillpoint::assign::Method {
-    use stillpoint::assign::Method as M;
-    match m {
-        Method::Tracey => M::Tracey,
-        Method::TraceyFast => M::TraceyFast,
-        Method::Liu => M::Liu,
-        Method::Tan => M::Tan,
-        Method::Adjacent => M::Adjacent,
-        Method::OneHot => M::OneHot,
-    }
-}
-
 /// The library settings for what the user typed.
 fn config(args: &SynthArgs) -> SynthConfig {
     let budget = if args.common.budget.is_finite() && args.common.budget >= 0.0 {
@@ -33,7 +21,7 @@ fn config(args: &SynthArgs) -> SynthConfig {
         Duration::from_secs(60)
     };
     SynthConfig::default()
-        .method(method(args.method))
+        .method(args.method.into())
         .reduce(!args.no_reduce)
         .changes(match args.changes {
             Changes::Single => ChangeMode::Single,
