@@ -35,7 +35,10 @@
 //! satisfiable instances, which finds codes fastest (24-state tables of 16 columns: the
 //! hardest refutation measured took 16 s with the defaults and 19 s with the other set;
 //! the hardest code, 126 s with the defaults and 2 s with the other). [`decide_pair`]
-//! runs both on the lexicographic encoding at once, one thread each.
+//! runs both on the lexicographic encoding at once, one thread each, while a width is
+//! decided quickly; a width still open after [`SPLIT_FROM`] conflicts each goes to
+//! [`decide_split`], which cuts the formula into cubes on the first two rows' codes
+//! ([`lex_cubes`]) and shares them between two solvers.
 //!
 //! **Budget**: work is counted in learned clauses (one per conflict), through the
 //! solver's learned-clause callback; each solve gets a conflict limit of the work left.
@@ -293,9 +296,7 @@ fn lex_order(f: &mut Cnf, bits: &[Vec<i32>], ds: &[Dichotomy], r: usize) {
     if k < 2 {
         return;
     }
-    let count = counts(n, ds);
-    let mut rows: Vec<usize> = (0..n).filter(|&s| s != r).collect();
-    rows.sort_by_key(|&s| (std::cmp::Reverse(count[s]), s));
+    let rows = lex_rows(n, ds, r);
     let strict = n > 64 || (1u64 << (n - 1)) >= k as u64;
     for i in 0..k - 1 {
         // eq: the rows before the current one are equal in both columns.
@@ -328,6 +329,48 @@ fn lex_order(f: &mut Cnf, bits: &[Vec<i32>], ds: &[Dichotomy], r: usize) {
             }
         }
     }
+}
+
+/// The rows of [`lex_order`], most significant first: the states other than the pivot
+/// `r`, busiest first.
+fn lex_rows(n: usize, ds: &[Dichotomy], r: usize) -> Vec<usize> {
+    let count = counts(n, ds);
+    let mut rows: Vec<usize> = (0..n).filter(|&s| s != r).collect();
+    rows.sort_by_key(|&s| (std::cmp::Reverse(count[s]), s));
+    rows
+}
+
+/// The cubes that split the lexicographic encoding of width `k` into parts, as
+/// assumption literals. In the order of [`lex_order`] the first row's bits do not
+/// increase from column to column, so its code is `1^w 0^(k-w)` for some `w` in
+/// `0..=k`; within each of the two blocks of columns where that row is constant the
+/// second row's bits do not increase either, so its code is `1^a 0^(w-a) 1^b 0^(k-w-b)`.
+/// Every solution of the encoding lies in exactly one cube `(w, a, b)`, so the formula
+/// is unsatisfiable exactly when every cube is (with fewer than two rows, the cubes of
+/// the rows there are).
+fn lex_cubes(n: usize, ds: &[Dichotomy], bits: &[Vec<i32>]) -> Vec<Vec<i32>> {
+    let k = bits.first().map_or(0, Vec::len);
+    let rows = lex_rows(n, ds, pivot(n, ds));
+    let lit = |s: usize, i: usize, one: bool| if one { bits[s][i] } else { -bits[s][i] };
+    let Some(&first) = rows.first() else {
+        return vec![Vec::new()];
+    };
+    let mut cubes = Vec::new();
+    for w in 0..=k {
+        let head: Vec<i32> = (0..k).map(|i| lit(first, i, i < w)).collect();
+        let Some(&second) = rows.get(1) else {
+            cubes.push(head);
+            continue;
+        };
+        for a in 0..=w {
+            for b in 0..=k - w {
+                let mut cube = head.clone();
+                cube.extend((0..k).map(|i| lit(second, i, i < a || (i >= w && i < w + b))));
+                cubes.push(cube);
+            }
+        }
+    }
+    cubes
 }
 
 /// The solver's callbacks: counts learned clauses (the work), stops on a cancel flag
@@ -413,11 +456,16 @@ impl Engine {
 
     /// Solves with at most `limit` more conflicts (continuing from earlier solves).
     fn run(&mut self, limit: u64) -> Run {
+        self.run_under(limit, &[])
+    }
+
+    /// [`Engine::run`] under the assumption literals `cube`.
+    fn run_under(&mut self, limit: u64, cube: &[i32]) -> Run {
         let lim = i32::try_from(limit).unwrap_or(i32::MAX);
         if self.solver.set_limit("conflicts", lim).is_err() {
             return Run::Interrupted;
         }
-        match self.solver.solve() {
+        match self.solver.solve_with(cube.iter().copied()) {
             Some(true) => Run::Sat,
             Some(false) => Run::Unsat,
             None => {
@@ -432,6 +480,15 @@ impl Engine {
                 }
             }
         }
+    }
+
+    /// The literals of `cube` that the last unsatisfiable [`Engine::run_under`] used
+    /// (empty: the formula itself is unsatisfiable).
+    fn core(&self, cube: &[i32]) -> Vec<i32> {
+        cube.iter()
+            .copied()
+            .filter(|&l| self.solver.failed(l))
+            .collect()
     }
 
     /// [`Engine::run`] with all the work left, charged to `work`; a conflict limit spends
@@ -583,6 +640,228 @@ pub(crate) fn decide(
     }
 }
 
+/// The conflict limit of each cube in the first round of [`decide_split`].
+pub(crate) const FIRST_CUBE_LIMIT: u64 = 250;
+
+/// What one thread of [`decide_split`] did in one round.
+struct Lane {
+    /// Conflicts spent this round.
+    spent: u64,
+    /// The first cube found satisfiable (the engine holds its model).
+    sat: bool,
+    /// The cores of the cubes found unsatisfiable this round.
+    cores: Vec<Vec<i32>>,
+    /// Whether the deadline or the cancel flag stopped it.
+    interrupted: bool,
+}
+
+/// Whether `cube` contains every literal of some core in `cores`.
+fn refuted(cube: &[i32], cores: &[Vec<i32>]) -> bool {
+    cores.iter().any(|c| c.iter().all(|l| cube.contains(l)))
+}
+
+/// One round of one thread: every open cube of `mine` that no core refutes, under at
+/// most `limit` conflicts each and `share` in all, in order; stops at the first
+/// satisfiable cube.
+fn lane_round(
+    e: &mut Engine,
+    cubes: &[Vec<i32>],
+    mine: &[usize],
+    known: &[Vec<i32>],
+    limit: u64,
+    share: u64,
+) -> Lane {
+    let mut lane = Lane {
+        spent: 0,
+        sat: false,
+        cores: Vec::new(),
+        interrupted: false,
+    };
+    for &c in mine {
+        let cube = &cubes[c];
+        if refuted(cube, known) || refuted(cube, &lane.cores) {
+            continue;
+        }
+        let room = limit.min(share.saturating_sub(lane.spent));
+        if room == 0 {
+            break;
+        }
+        let before = e.learned();
+        let r = e.run_under(room, cube);
+        lane.spent += e.learned() - before;
+        match r {
+            Run::Sat => {
+                lane.sat = true;
+                break;
+            }
+            Run::Unsat => lane.cores.push(e.core(cube)),
+            Run::Limit => {}
+            Run::Interrupted => {
+                lane.interrupted = true;
+                break;
+            }
+        }
+    }
+    lane
+}
+
+/// Decides width `k` by splitting the lexicographic encoding into the cubes of
+/// [`lex_cubes`] and solving them on two threads, each with one incremental solver
+/// (option set [`Tuning::Find`], which on these formulas both finds codes and refutes
+/// about as fast as the defaults or faster). A first pass gives every cube
+/// [`FIRST_CUBE_LIMIT`] conflicts, which settles most of them; the cubes left are dealt
+/// to the two threads alternately, and each thread works through its own in order in
+/// epochs of [`EPOCH`] conflicts. Between epochs the open cubes are shared again: when
+/// one thread holds more than one cube more than the other, the tail of its list moves
+/// over, and when one holds none and the other a single cube, that cube is cut in two
+/// on its first free bit (rows in the lexicographic order). Codes found come with up to
+/// `want` distinct class sets, by blocking clauses.
+///
+/// A cube proven unsatisfiable leaves a core (the assumption literals the proof used);
+/// a later cube containing a core is skipped, and when a core is empty the formula is
+/// unsatisfiable. On the hardest tables measured (24 states, 16 columns) the cubes'
+/// work sums to about that of the whole formula on one solver, so two threads refute in
+/// little more than half the time of one, where two option sets on the whole formula
+/// ([`decide_pair`]) gain only when one set is much faster than the other.
+///
+/// The answer is the same on every run whatever the threads' speeds: each thread works
+/// through its own cubes in order with its own solver, the sharing between epochs
+/// depends only on what the epochs settled, the first thread's code wins
+/// over the second's, the first thread stops the second only when it finds a code, and
+/// what is charged is twice the first thread's conflicts in that case (both threads'
+/// conflicts otherwise).
+pub(crate) fn decide_split(
+    n: usize,
+    ds: &[Dichotomy],
+    clique: &[usize],
+    k: usize,
+    work: &mut Work,
+    want: usize,
+) -> Answer {
+    if let Some(a) = trivial(n, ds, clique, k) {
+        return a;
+    }
+    let f = formula(n, ds, clique, k, Sym::Lex);
+    let mut cubes = lex_cubes(n, ds, &f.1);
+    // The bit variables in the rows' order, to split a cube further.
+    let order: Vec<i32> = lex_rows(n, ds, pivot(n, ds))
+        .iter()
+        .flat_map(|&s| f.1[s].iter().copied())
+        .collect();
+    let stop_second = Arc::new(AtomicBool::new(false));
+    let never = Arc::new(AtomicBool::new(false));
+    let mut first = Engine::new(f.clone(), Tuning::Find, work.deadline, never);
+    let mut second = Engine::new(f, Tuning::Find, work.deadline, stop_second.clone());
+    let mut cores: Vec<Vec<i32>> = Vec::new();
+    // The first pass deals the cubes alternately, every one with a small limit; later
+    // passes (epochs of at most EPOCH conflicts per thread) continue each thread's open
+    // cubes in order, and when one thread has fewer open cubes than the other, the tail
+    // of the longer list moves over.
+    let deal = |open: &[usize]| -> [Vec<usize>; 2] {
+        [
+            open.iter().step_by(2).copied().collect(),
+            open.iter().skip(1).step_by(2).copied().collect(),
+        ]
+    };
+    let mut lanes = deal(&(0..cubes.len()).collect::<Vec<_>>());
+    for pass in 0u64.. {
+        if work.spent() {
+            return Answer::Stopped;
+        }
+        let share = (work.left / 2).clamp(1, if pass == 0 { u64::MAX } else { EPOCH });
+        let limit = if pass == 0 { FIRST_CUBE_LIMIT } else { share };
+        let [mine0, mine1] = &lanes;
+        let (a, b) = std::thread::scope(|sc| {
+            let h = sc.spawn(|| lane_round(&mut second, &cubes, mine1, &cores, limit, share));
+            let a = lane_round(&mut first, &cubes, mine0, &cores, limit, share);
+            if a.sat {
+                stop_second.store(true, Ordering::Relaxed);
+            }
+            let b = h.join().unwrap_or(Lane {
+                spent: 0,
+                sat: false,
+                cores: Vec::new(),
+                interrupted: true,
+            });
+            (a, b)
+        });
+        if first.clock_fired() || second.clock_fired() {
+            work.clock_fired = true;
+        }
+        if a.sat {
+            work.charge(2 * a.spent);
+            return harvest(&mut first, ds, k, work, want);
+        }
+        work.charge(a.spent + b.spent);
+        if b.sat {
+            return harvest(&mut second, ds, k, work, want);
+        }
+        if a.interrupted || b.interrupted {
+            // Only the deadline can interrupt here (no code was found).
+            work.clock_fired = true;
+            return Answer::Stopped;
+        }
+        let progress = a.spent + b.spent > 0 || !a.cores.is_empty() || !b.cores.is_empty();
+        cores.extend(a.cores);
+        cores.extend(b.cores);
+        if cores.iter().any(Vec::is_empty) {
+            return Answer::Infeasible;
+        }
+        for lane in &mut lanes {
+            lane.retain(|&c| !refuted(&cubes[c], &cores));
+        }
+        if pass == 0 {
+            // Deal the survivors of the first pass alternately again.
+            let mut open = lanes.concat();
+            open.sort_unstable();
+            lanes = deal(&open);
+        }
+        let [l0, l1] = &mut lanes;
+        // A lone open cube is cut in two on its first free bit, so both threads work.
+        for _ in 0..2 {
+            let (long, short) = if l0.is_empty() {
+                (&mut *l1, &mut *l0)
+            } else {
+                (&mut *l0, &mut *l1)
+            };
+            if short.is_empty() && long.len() == 1 {
+                let c = long[0];
+                if let Some(&x) = order
+                    .iter()
+                    .find(|&&x| !cubes[c].iter().any(|l| l.abs() == x))
+                {
+                    let mut other = cubes[c].clone();
+                    cubes[c].push(x);
+                    other.push(-x);
+                    cubes.push(other);
+                    short.push(cubes.len() - 1);
+                }
+            }
+        }
+        while l0.len() > l1.len() + 1 {
+            l1.push(l0.pop().unwrap_or_default());
+        }
+        while l1.len() > l0.len() + 1 {
+            l0.push(l1.pop().unwrap_or_default());
+        }
+        if l0.is_empty() && l1.is_empty() {
+            return Answer::Infeasible;
+        }
+        if !progress {
+            return Answer::Stopped;
+        }
+    }
+    Answer::Stopped
+}
+
+/// The conflicts each thread of [`decide_split`] spends between two looks at how the
+/// open cubes are shared.
+const EPOCH: u64 = 20_000;
+
+/// The round allowance (per solver) from which [`decide_pair`] hands the rest of a
+/// width's decision to [`decide_split`].
+pub(crate) const SPLIT_FROM: u64 = 8_000;
+
 /// The conflict limit of the first round of [`decide_pair`] (per solver).
 pub(crate) const FIRST_ALLOWANCE: u64 = 2_000;
 
@@ -635,7 +914,8 @@ pub(crate) fn local_search(
 /// quarter of the round's allowance, then two solvers on the lexicographic encoding at
 /// once, one thread each, one with the option set that finds codes ([`Tuning::Find`])
 /// and one with the set that refutes ([`Tuning::Refute`]), with the round's allowance as
-/// conflict limit (each round continues the solvers' earlier work).
+/// conflict limit (each round continues the solvers' earlier work). From the round whose
+/// allowance reaches [`SPLIT_FROM`], the rest of the decision goes to [`decide_split`].
 ///
 /// The answer is the same on every run whatever the threads' speeds: the finder's code
 /// wins over the refuter's, the finder stops the refuter only when it finds a code, the
@@ -680,6 +960,9 @@ pub(crate) fn decide_pair(
         }
         if work.spent() {
             return Answer::Stopped;
+        }
+        if allowance >= SPLIT_FROM {
+            return decide_split(n, ds, clique, k, work, want);
         }
         let each = allowance.min(work.left / 2).max(1);
         let ((rf, cf), (rr, cr)) = std::thread::scope(|sc| {
@@ -947,7 +1230,68 @@ mod tests {
                 panic!("seed {seed} pair: width {w} is feasible")
             };
             assert!(ds.iter().all(|d| f[0].iter().any(|c| c.covers(*d))));
+            // So do the cubes.
+            let below = decide_split(n, &ds, &clique, w - 1, &mut Work::unlimited(), 1);
+            assert_eq!(below, Answer::Infeasible, "seed {seed} split");
+            let Answer::Found(f) = decide_split(n, &ds, &clique, w, &mut Work::unlimited(), 2)
+            else {
+                panic!("seed {seed} split: width {w} is feasible")
+            };
+            for cls in &f {
+                assert!(ds.iter().all(|d| cls.iter().any(|c| c.covers(*d))));
+            }
         }
+    }
+
+    #[test]
+    fn the_cubes_partition_the_lexicographic_solutions() {
+        // Every solution of the lexicographic encoding lies in exactly one cube: list
+        // models of a small instance (blocking each, up to 2000) and place each.
+        let t = stillpoint_table::testing::random_normal_table(5, 6, 2);
+        let p = crate::problem::Problem::from_table(&t).unwrap();
+        let ds = required_for(&p).unwrap();
+        let n = p.num_states;
+        for k in 3..=5 {
+            let f = formula(n, &ds, &[], k, Sym::Lex);
+            let cubes = lex_cubes(n, &ds, &f.1);
+            let mut e = Engine::new(f, Tuning::Find, None, Arc::new(AtomicBool::new(false)));
+            let mut models = 0;
+            while e.run(u64::MAX) == Run::Sat && models < 2000 {
+                let code = e.code();
+                let holds = |l: i32| {
+                    let (s, i) = e
+                        .bits
+                        .iter()
+                        .enumerate()
+                        .find_map(|(s, row)| row.iter().position(|&v| v == l.abs()).map(|i| (s, i)))
+                        .expect("cube literals are bit variables");
+                    code[s][i] == (l > 0)
+                };
+                let inside = cubes.iter().filter(|c| c.iter().all(|&l| holds(l))).count();
+                assert_eq!(inside, 1, "k {k}: a model in {inside} cubes");
+                e.block(&code);
+                models += 1;
+            }
+            assert!(models > 0, "k {k}: no model");
+        }
+    }
+
+    #[test]
+    fn the_split_decision_is_the_same_every_time() {
+        // Work charged and answer do not depend on the threads' speeds.
+        let t = stillpoint_table::testing::random_normal_table(3, 16, 4);
+        let p = crate::problem::Problem::from_table(&t).unwrap();
+        let ds = required_for(&p).unwrap();
+        let clique = crate::tracey::incompatible_clique(&ds, 64);
+        let runs: Vec<(Answer, u64)> = (0..3)
+            .map(|_| {
+                let mut w = Work::new(30_000, None);
+                let a = decide_split(16, &ds, &clique, 5, &mut w, 1);
+                (a, w.used)
+            })
+            .collect();
+        assert_eq!(runs[0], runs[1]);
+        assert_eq!(runs[0], runs[2]);
     }
 
     #[test]

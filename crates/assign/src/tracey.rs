@@ -495,7 +495,8 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// an eighth of the allowance in all, per width four first allowances or, for the last
 /// open width, a quarter of one) while it finds codes; then widths `lb, lb + 1, ...`
 /// upward are decided ([`crate::sat::decide_pair`]: local search, then a solver tuned to
-/// find codes and one tuned to refute, at once), each proven infeasible raising the
+/// find codes and one tuned to refute, at once, and for a width that resists, its cubes
+/// shared by two solvers), each proven infeasible raising the
 /// bound, until one is feasible (it is then optimal) or the allowance stops a solve.
 pub(crate) fn exact_sat(
     p: &Problem,
