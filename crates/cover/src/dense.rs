@@ -708,12 +708,15 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
     // The cover's uniquely held points and the small-`N` points do not depend on each
     // other: built side by side (each in a fixed order, whatever the threads).
     let unique = || {
-        let mut cnt = vec![0u8; st.len()];
+        // The points held by one product and by more, as two bitsets (small enough to
+        // stay in cache while the products are painted in).
+        let words = st.len().div_ceil(64);
+        let (mut once, mut more) = (vec![0u64; words], vec![0u64; words]);
         for c in cover {
             each_point(c, n, |p| {
-                if st[p] == ON {
-                    cnt[p] = cnt[p].saturating_add(1);
-                }
+                let (w, b) = (p >> 6, 1u64 << (p & 63));
+                more[w] |= once[w] & b;
+                once[w] |= b;
                 true
             });
         }
@@ -724,7 +727,7 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
             .filter_map(|&k| {
                 let mut found = None;
                 each_point(&cover[k], n, |p| {
-                    if st[p] == ON && cnt[p] == 1 {
+                    if (once[p >> 6] & !more[p >> 6]) >> (p & 63) & 1 == 1 && st[p] == ON {
                         found = Some(p as u32);
                         false
                     } else {
