@@ -442,17 +442,12 @@ impl<'a> Engine<'a> {
                         if !on_at(&self.words, q) || self.rec[r + 4 + v] > 0 {
                             continue;
                         }
-                        // The pair is `p` and its half `q`: the literals of `p`'s mask but
-                        // `v` that `q` allows too are raisable.
+                        // The pair's raisable literals: those in both points' masks.
                         let c = Cube::from_words(self.full & !(1 << v), p as u64);
                         let c = if clock.tick() {
                             c
                         } else {
-                            let bits = c.care_bits() & m;
-                            self.grow(
-                                c,
-                                self.still_raisable(bits, &Cube::from_words(self.full, q as u64)),
-                            )
+                            self.grow(c, c.care_bits() & m & u64::from(self.nb[q]))
                         };
                         self.add(c);
                     }
