@@ -84,30 +84,45 @@ impl<'a> Engine<'a> {
     pub(crate) fn new(s: &'a OutputSpec, t: &'a Table) -> Engine<'a> {
         let n = t.nvars();
         let (st, nb) = (t.states(), t.neighbours());
-        let mut below = 0u32;
-        let words: Vec<Word> = st
-            .chunks(64)
+        // The words and the fresh weights on the thread pool (a word depends on its 64
+        // points alone, the weights are collected in order), then the counts below.
+        use rayon::prelude::*;
+        let mut words: Vec<Word> = st
+            .par_chunks(64)
+            .with_min_len(256)
             .map(|w| {
-                let bits = |f: fn(u8) -> bool| {
-                    w.iter()
-                        .enumerate()
-                        .fold(0u64, |a, (i, &x)| a | u64::from(f(x)) << i)
-                };
-                let word = Word {
-                    on: bits(|x| x == ON),
+                let (mut on, mut not_off) = (0u64, 0u64);
+                for (i, &x) in w.iter().enumerate() {
+                    on |= u64::from(x == ON) << i;
+                    not_off |= u64::from(x != OFF) << i;
+                }
+                Word {
+                    on,
                     held: 0,
-                    not_off: bits(|x| x != OFF),
-                    below,
-                };
-                below += word.on.count_ones();
-                word
+                    not_off,
+                    below: 0,
+                }
             })
             .collect();
-        let fresh = st
-            .iter()
-            .zip(nb)
-            .filter(|&(&x, _)| x == ON)
-            .map(|(_, &m)| fresh_weight(n, m) as u8)
+        let mut below = 0u32;
+        for w in &mut words {
+            w.below = below;
+            below += w.on.count_ones();
+        }
+        let fresh: Vec<u8> = words
+            .par_iter()
+            .enumerate()
+            .with_min_len(256)
+            .flat_map_iter(|(k, w)| {
+                let mut x = w.on;
+                std::iter::from_fn(move || {
+                    (x != 0).then(|| {
+                        let p = k << 6 | x.trailing_zeros() as usize;
+                        x &= x - 1;
+                        fresh_weight(n, nb[p]) as u8
+                    })
+                })
+            })
             .collect();
         let stride = if s.adjacent_pairs { 4 + n } else { 4 };
         Engine {
