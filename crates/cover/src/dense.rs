@@ -62,10 +62,12 @@ pub(crate) struct Engine<'a> {
     /// One record of [`Engine::stride`] bytes per on-set point `p`, at `rank(p) *
     /// stride` (`rank` counts the on-set points below `p`, so only on-set points take
     /// room): the products holding `p` (bytes 0..4, little-endian) and, in static mode,
-    /// at byte `4 + v` for `v` with bit `v` of `p` clear, the products holding the pair
-    /// `(p, p | 1 << v)` of on-set points, saturating at 255 (a saturated count is
-    /// never trusted to allow a removal). Painting a product and testing its removal
-    /// touch each of its points' counts in one place.
+    /// at byte `4 + v` for `v` with bit `v` of `p` clear, the products holding both `p`
+    /// and `p | 1 << v`, saturating at 255 (a saturated count is never trusted to allow
+    /// a removal). The count is kept whatever `p | 1 << v` is and read only when it is
+    /// an on-set point too (an adjacent pair), so painting need not look it up.
+    /// Painting a product and testing its removal touch each of its points' counts in
+    /// one place.
     rec: Vec<u8>,
     /// The record size: 4, and `4 + n` in static mode.
     stride: usize,
@@ -181,11 +183,9 @@ impl<'a> Engine<'a> {
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if on_at(words, p | 1 << v) {
-                        let x = &mut rec[r + 4 + v];
-                        if *x != u8::MAX {
-                            *x = if up { *x + 1 } else { *x - 1 };
-                        }
+                    let x = &mut rec[r + 4 + v];
+                    if *x != u8::MAX {
+                        *x = if up { *x + 1 } else { *x - 1 };
                     }
                 }
             }
