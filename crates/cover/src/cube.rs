@@ -318,10 +318,11 @@ impl fmt::Debug for Cube {
 }
 
 /// Sorts `cubes` in the order of [`Cube`]'s `Ord` (the cube strings compared byte by
-/// byte): a radix sort on a key of two bits per variable (variable 0 most significant;
-/// `-` 0, `0` 1, `1` 2) when every literal lies among the first 32 variables, else the
-/// comparison sort. The same order as `sort_unstable` (equal cubes are identical), in
-/// time linear in the number of cubes.
+/// byte): when every literal lies among the first 32 variables, a least-significant-
+/// digit radix sort whose digit is a group of [`SORT_GROUP`] variables read as a base-3
+/// number (variable order, `-` 0, `0` 1, `1` 2) from a table of their care and value
+/// bits; else the comparison sort. The same order as `sort_unstable` (equal cubes are
+/// identical), in time linear in the number of cubes.
 pub(crate) fn sort_cubes(cubes: &mut [Cube]) {
     let top = cubes
         .iter()
@@ -332,58 +333,63 @@ pub(crate) fn sort_cubes(cubes: &mut [Cube]) {
         cubes.sort_unstable();
         return;
     }
-    // Variable v's two bits at 63 - 2v (`1`: the high one, `0`: the low one): the
-    // literal words bit-reversed (variable 0 first) and spread to every other bit.
-    fn spread(x: u32) -> u64 {
-        let mut x = u64::from(x);
-        x = (x | x << 16) & 0x0000_FFFF_0000_FFFF;
-        x = (x | x << 8) & 0x00FF_00FF_00FF_00FF;
-        x = (x | x << 4) & 0x0F0F_0F0F_0F0F_0F0F;
-        x = (x | x << 2) & 0x3333_3333_3333_3333;
-        (x | x << 1) & 0x5555_5555_5555_5555
+    // digit[care][value] of one group: its variables' codes, the first most significant.
+    let mut digit = [[0u8; 1 << SORT_GROUP]; 1 << SORT_GROUP];
+    for (care, row) in digit.iter_mut().enumerate() {
+        for (value, d) in row.iter_mut().enumerate() {
+            *d = (0..SORT_GROUP).fold(0, |a, i| {
+                let code = if care >> i & 1 == 0 {
+                    0
+                } else {
+                    1 + (value >> i & 1) as u8
+                };
+                3 * a + code
+            });
+        }
     }
-    fn compact(x: u64) -> u32 {
-        let mut x = x & 0x5555_5555_5555_5555;
-        x = (x | x >> 1) & 0x3333_3333_3333_3333;
-        x = (x | x >> 2) & 0x0F0F_0F0F_0F0F_0F0F;
-        x = (x | x >> 4) & 0x00FF_00FF_00FF_00FF;
-        x = (x | x >> 8) & 0x0000_FFFF_0000_FFFF;
-        (x | x >> 16) as u32
-    }
-    let key = |c: &Cube| -> u64 {
-        let one = ((c.care & c.value) as u32).reverse_bits();
-        let zero = ((c.care & !c.value) as u32).reverse_bits();
-        spread(one) << 1 | spread(zero)
+    let groups = top.div_ceil(SORT_GROUP);
+    let of = |c: &Cube, g: usize| -> usize {
+        let m = (1u64 << SORT_GROUP) - 1;
+        let shift = g * SORT_GROUP;
+        usize::from(digit[(c.care >> shift & m) as usize][(c.value >> shift & m) as usize])
     };
-    let mut keys: Vec<u64> = cubes.iter().map(key).collect();
-    let mut spare = vec![0u64; keys.len()];
-    // Only the top 2 * top bits vary.
-    let low_byte = (64 - 2 * top) / 8;
-    for b in low_byte..8 {
-        let shift = 8 * b;
-        let mut start = [0usize; 257];
-        for &k in &keys {
-            start[((k >> shift) & 0xFF) as usize + 1] += 1;
+    // Every group's digit counts in one pass.
+    let mut counts = vec![[0usize; DIGITS]; groups];
+    for c in cubes.iter() {
+        for (g, count) in counts.iter_mut().enumerate() {
+            count[of(c, g)] += 1;
         }
-        for i in 1..257 {
-            start[i] += start[i - 1];
+    }
+    let mut spare = cubes.to_vec();
+    // The last group first; the passes alternate between `cubes` and `spare`.
+    for (pass, g) in (0..groups).rev().enumerate() {
+        let (from, to): (&[Cube], &mut [Cube]) = if pass % 2 == 0 {
+            (cubes, &mut spare)
+        } else {
+            (&spare, cubes)
+        };
+        let mut start = [0usize; DIGITS];
+        let mut sum = 0;
+        for (s, &k) in start.iter_mut().zip(&counts[g]) {
+            *s = sum;
+            sum += k;
         }
-        for &k in &keys {
-            let d = ((k >> shift) & 0xFF) as usize;
-            spare[start[d]] = k;
+        for c in from {
+            let d = of(c, g);
+            to[start[d]] = *c;
             start[d] += 1;
         }
-        std::mem::swap(&mut keys, &mut spare);
     }
-    for (c, &k) in cubes.iter_mut().zip(&keys) {
-        let one = u64::from(compact(k >> 1).reverse_bits());
-        let zero = u64::from(compact(k).reverse_bits());
-        *c = Cube {
-            care: one | zero,
-            value: one,
-        };
+    if groups % 2 == 1 {
+        cubes.copy_from_slice(&spare);
     }
 }
+
+/// Variables per digit of [`sort_cubes`].
+const SORT_GROUP: usize = 5;
+
+/// The digits of [`sort_cubes`].
+const DIGITS: usize = 3usize.pow(SORT_GROUP as u32);
 
 /// Writes a cover in readable form, e.g. `a c' + b d` (`0` for the empty cover, `1` for
 /// the universe).

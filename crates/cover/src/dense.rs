@@ -59,83 +59,93 @@ pub(crate) struct Engine<'a> {
     full: u64,
     /// Chosen products (`None` once removed).
     cubes: Vec<Option<Cube>>,
-    /// Products holding each on-set point (other points are not counted).
-    cnt: Vec<u32>,
-    /// Static mode: products holding the pair `(p, p ^ 1 << v)` of on-set points at
-    /// `rank(p) * n + v` (for `p` with bit `v` clear; `rank` counts the on-set points
-    /// below `p`, so only on-set points take room: a third of the table's size times
-    /// `n`, which keeps these random accesses in fewer pages), saturating at 255 (a
-    /// saturated count is never trusted to allow a removal).
-    pairs: Vec<u8>,
-    /// The on-set points as a bitset (the hot loops read a point's state here: an
-    /// eighth of the state table) and, in static mode, how many lie below each word.
-    on_bits: Vec<u64>,
-    on_below: Vec<u32>,
+    /// One record of [`Engine::stride`] bytes per on-set point `p`, at `rank(p) *
+    /// stride` (`rank` counts the on-set points below `p`, so only on-set points take
+    /// room): the products holding `p` (bytes 0..4, little-endian) and, in static mode,
+    /// at byte `4 + v` for `v` with bit `v` of `p` clear, the products holding both `p`
+    /// and `p | 1 << v`, saturating at 255 (a saturated count is never trusted to allow
+    /// a removal). The count is kept whatever `p | 1 << v` is and read only when it is
+    /// an on-set point too (an adjacent pair), so painting need not look it up.
+    /// Painting a product and testing its removal touch each of its points' counts in
+    /// one place.
+    rec: Vec<u8>,
+    /// The record size: 4, and `4 + n` in static mode.
+    stride: usize,
+    /// The point bitsets, 64 points a [`Word`].
+    words: Vec<Word>,
+    /// [`fresh_weight`] of each on-set point, by rank.
+    fresh: Vec<u8>,
     /// Products holding each required cube.
     req: Vec<u32>,
     /// The table's neighbour masks ([`Table::neighbours`]).
     nb: &'a [u32],
-    /// [`Engine::weight`] of every point, kept up to date by [`Engine::paint`] (one
-    /// byte per point: the expand scores read this alone).
-    wt: Vec<u8>,
 }
 
 impl<'a> Engine<'a> {
     /// An empty cover of `s` over its point table.
     pub(crate) fn new(s: &'a OutputSpec, t: &'a Table) -> Engine<'a> {
         let n = t.nvars();
-        let size = 1usize << n;
         let (st, nb) = (t.states(), t.neighbours());
-        let wt = st
-            .iter()
-            .zip(nb)
-            .map(|(&s, &m)| if s == ON { fresh_weight(n, m) } else { 0 })
-            .collect();
-        let on_bits: Vec<u64> = st
-            .chunks(64)
+        // The words and the fresh weights on the thread pool (a word depends on its 64
+        // points alone, the weights are collected in order), then the counts below.
+        use rayon::prelude::*;
+        let mut words: Vec<Word> = st
+            .par_chunks(64)
+            .with_min_len(256)
             .map(|w| {
-                w.iter()
-                    .enumerate()
-                    .fold(0u64, |a, (i, &x)| a | u64::from(x == ON) << i)
+                let (mut on, mut not_off) = (0u64, 0u64);
+                for (i, &x) in w.iter().enumerate() {
+                    on |= u64::from(x == ON) << i;
+                    not_off |= u64::from(x != OFF) << i;
+                }
+                Word {
+                    on,
+                    held: 0,
+                    not_off,
+                    below: 0,
+                }
             })
             .collect();
-        let mut on_below = Vec::new();
-        if s.adjacent_pairs {
-            let mut below = 0u32;
-            on_below = on_bits
-                .iter()
-                .map(|w| {
-                    let b = below;
-                    below += w.count_ones();
-                    b
-                })
-                .collect();
+        let mut below = 0u32;
+        for w in &mut words {
+            w.below = below;
+            below += w.on.count_ones();
         }
-        let on_count = on_bits
-            .iter()
-            .filter(|_| s.adjacent_pairs)
-            .map(|w| w.count_ones() as usize)
-            .sum::<usize>();
+        let fresh: Vec<u8> = words
+            .par_iter()
+            .enumerate()
+            .with_min_len(256)
+            .flat_map_iter(|(k, w)| {
+                let mut x = w.on;
+                std::iter::from_fn(move || {
+                    (x != 0).then(|| {
+                        let p = k << 6 | x.trailing_zeros() as usize;
+                        x &= x - 1;
+                        fresh_weight(n, nb[p]) as u8
+                    })
+                })
+            })
+            .collect();
+        let stride = if s.adjacent_pairs { 4 + n } else { 4 };
         Engine {
             s,
-            st: t.states(),
+            st,
             n,
             full: mask(n),
             cubes: Vec::new(),
-            cnt: vec![0; size],
-            pairs: vec![0; on_count * n],
-            on_bits,
-            on_below,
+            rec: vec![0; below as usize * stride],
+            stride,
+            words,
+            fresh,
             req: vec![0; s.required.len()],
             nb,
-            wt,
         }
     }
 
-    /// Where the count of the pair `(p, p | 1 << v)` of on-set points is kept.
+    /// Where the record of on-set point `p` starts in [`Engine::rec`].
     #[inline]
-    fn slot(&self, p: usize, v: usize) -> usize {
-        pair_slot(&self.on_bits, &self.on_below, self.n, p, v)
+    fn record(&self, p: usize) -> usize {
+        rank(&self.words, p) * self.stride
     }
 
     /// The products chosen, in the order they were added.
@@ -152,37 +162,30 @@ impl<'a> Engine<'a> {
 
     /// Adds product `c` to the counts (not to the list).
     fn paint(&mut self, c: &Cube, up: bool) {
-        let n = self.n;
         let free = self.full & !c.care_bits();
-        let (cnt, pairs, wt, nb) = (&mut self.cnt, &mut self.pairs, &mut self.wt, self.nb);
-        let (on_bits, on_below) = (&self.on_bits, &self.on_below);
-        let pairs_on = !pairs.is_empty();
-        each_point(c, n, |p| {
+        let stride = self.stride;
+        let (rec, words) = (&mut self.rec, &mut self.words);
+        each_point(c, self.n, |p| {
             // Only on-set points are counted (no count of another point is read).
-            if !on_at(on_bits, p) {
+            if !on_at(words, p) {
                 return true;
             }
-            if up {
-                cnt[p] += 1;
-                if cnt[p] == 1 {
-                    wt[p] = 1;
-                }
-            } else {
-                cnt[p] -= 1;
-                if cnt[p] == 0 {
-                    wt[p] = fresh_weight(n, nb[p]);
-                }
+            let r = rank(words, p) * stride;
+            let k = count(rec, r);
+            let k = if up { k + 1 } else { k - 1 };
+            rec[r..r + 4].copy_from_slice(&k.to_le_bytes());
+            // Held by one product after a raise, by none after a fall: the bit flips.
+            if k == u32::from(up) {
+                words[p >> 6].held ^= 1 << (p & 63);
             }
-            if pairs_on {
+            if stride > 4 {
                 let mut f = free & !(p as u64);
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if on_at(on_bits, p | 1 << v) {
-                        let x = &mut pairs[pair_slot(on_bits, on_below, n, p, v)];
-                        if *x != u8::MAX {
-                            *x = if up { *x + 1 } else { *x - 1 };
-                        }
+                    let x = &mut rec[r + 4 + v];
+                    if *x != u8::MAX {
+                        *x = if up { *x + 1 } else { *x - 1 };
                     }
                 }
             }
@@ -216,9 +219,18 @@ impl<'a> Engine<'a> {
     /// an on-set point already held, and for one not yet held 2 plus its off-set
     /// neighbours (points with few ways out are the ones a later product covers
     /// badly; measured: about 2 % fewer products at 16 variables than a flat weight).
+    /// Read from the point's [`Word`], and only for a point not yet held from the
+    /// table of fresh weights.
     #[inline]
     fn weight(&self, p: usize) -> u32 {
-        self.wt[p] as u32
+        let w = &self.words[p >> 6];
+        if !bit(w.on, p) {
+            0
+        } else if bit(w.held, p) {
+            1
+        } else {
+            self.fresh[rank(&self.words, p)] as u32
+        }
     }
 
     /// The variables `v` for which raising `v` in `c` may meet a privileged cube
@@ -243,23 +255,57 @@ impl<'a> Engine<'a> {
         out
     }
 
+    /// The literals of `c` that can be raised without meeting the off-set: those in
+    /// the neighbour mask of every point of `c`.
+    fn raisable(&self, c: &Cube) -> u64 {
+        let mut bits = c.care_bits() & self.full;
+        each_point(c, self.n, |p| {
+            bits &= self.nb[p] as u64;
+            bits != 0
+        });
+        bits
+    }
+
+    /// Those of the literals `bits` whose flip from every point of cube `h` leaves the
+    /// off-set: with `bits` the raisable literals of a cube but the one raised, and
+    /// `h` the half it gained, the raisable literals of the raised cube (read from the
+    /// bitset, not the neighbour masks of the new points).
+    fn still_raisable(&self, mut bits: u64, h: &Cube) -> u64 {
+        each_point(h, self.n, |q| {
+            let mut f = bits;
+            while f != 0 {
+                let u = f.trailing_zeros() as usize;
+                f &= f - 1;
+                let x = q ^ 1 << u;
+                if !bit(self.words[x >> 6].not_off, x) {
+                    bits &= !(1 << u);
+                }
+            }
+            bits != 0
+        });
+        bits
+    }
+
     /// Grows the legal cube `c` to a maximal legal cube, greedily.
-    fn expand(&self, mut c: Cube) -> Cube {
+    fn expand(&self, c: Cube) -> Cube {
+        self.grow(c, self.raisable(&c))
+    }
+
+    /// [`Engine::expand`] of `c` given its raisable literals `bits`.
+    fn grow(&self, mut c: Cube, mut bits: u64) -> Cube {
         loop {
-            let mut best: Option<(u32, Cube)> = None;
-            let mut bits = c.care_bits() & self.full;
-            each_point(&c, self.n, |p| {
-                bits &= self.nb[p] as u64;
-                bits != 0
-            });
+            // The best raise: its score, the cube, and the half it gains (`None`: a
+            // closure, whose raisable literals are recomputed).
+            let mut best: Option<(u32, Cube, Option<Cube>)> = None;
             let suspects = if self.s.privileged.is_empty() {
                 0
             } else {
                 self.priv_suspects(&c)
             };
-            while bits != 0 {
-                let v = bits.trailing_zeros() as usize;
-                bits &= bits - 1;
+            let mut left = bits;
+            while left != 0 {
+                let v = left.trailing_zeros() as usize;
+                left &= left - 1;
                 let up = c.with_literal(v, None);
                 let mut score = 0u32;
                 if suspects >> v & 1 == 0 || self.priv_ok(&up) {
@@ -268,8 +314,8 @@ impl<'a> Engine<'a> {
                         score += self.weight(p);
                         true
                     });
-                    if !matches!(best, Some((b, _)) if b >= score) {
-                        best = Some((score, up));
+                    if !matches!(best, Some((b, ..)) if b >= score) {
+                        best = Some((score, up, Some(half)));
                     }
                 } else {
                     let big = self.s.closure(&up);
@@ -279,13 +325,22 @@ impl<'a> Engine<'a> {
                         }
                         self.st[p] != OFF
                     });
-                    if ok && !matches!(best, Some((b, _)) if b >= score) {
-                        best = Some((score, big));
+                    if ok && !matches!(best, Some((b, ..)) if b >= score) {
+                        best = Some((score, big, None));
                     }
                 }
             }
             match best {
-                Some((_, up)) => c = up,
+                Some((_, up, Some(half))) => {
+                    // The raised cube is `c` and the half: its raisable literals are
+                    // those of `c` but the raised one that the half allows too.
+                    bits = self.still_raisable(bits & up.care_bits(), &half);
+                    c = up;
+                }
+                Some((_, big, None)) => {
+                    c = big;
+                    bits = self.raisable(&c);
+                }
                 None => return c,
             }
         }
@@ -293,23 +348,22 @@ impl<'a> Engine<'a> {
 
     /// Whether product `k` can go: everything it holds is held by another product.
     fn removable(&self, c: &Cube) -> bool {
-        let n = self.n;
         let free = self.full & !c.care_bits();
-        let pairs_on = !self.pairs.is_empty();
-        let points_ok = each_point(c, n, |p| {
-            if !on_at(&self.on_bits, p) {
+        let points_ok = each_point(c, self.n, |p| {
+            if !on_at(&self.words, p) {
                 return true;
             }
-            if self.cnt[p] < 2 {
+            let r = self.record(p);
+            if count(&self.rec, r) < 2 {
                 return false;
             }
-            if pairs_on {
+            if self.stride > 4 {
                 let mut f = free & !(p as u64);
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    if on_at(&self.on_bits, p | 1 << v) {
-                        let x = self.pairs[self.slot(p, v)];
+                    if on_at(&self.words, p | 1 << v) {
+                        let x = self.rec[r + 4 + v];
                         if x < 2 || x == u8::MAX {
                             return false;
                         }
@@ -353,19 +407,26 @@ impl<'a> Engine<'a> {
         }
         // On-set points, fewest non-off neighbours first.
         let n = self.n;
-        let mut buckets: Vec<Vec<u32>> = vec![Vec::new(); n + 1];
-        for p in 0..self.st.len() {
-            if self.st[p] == ON && self.cnt[p] == 0 {
-                buckets[self.nb[p].count_ones() as usize].push(p as u32);
+        // (Each point with its neighbour mask, read here in order: a point's raisable
+        // literals.)
+        let mut buckets: Vec<Vec<(u32, u32)>> = vec![Vec::new(); n + 1];
+        for (w, word) in self.words.iter().enumerate() {
+            let mut x = word.on & !word.held;
+            while x != 0 {
+                let p = w << 6 | x.trailing_zeros() as usize;
+                x &= x - 1;
+                let m = self.nb[p];
+                buckets[m.count_ones() as usize].push((p as u32, m));
             }
         }
         for b in &buckets {
-            for &p in b {
+            for &(p, m) in b {
                 let p = p as usize;
-                if self.cnt[p] > 0 {
+                if bit(self.words[p >> 6].held, p) {
                     continue;
                 }
                 let mut c = Cube::from_words(self.full, p as u64);
+                let mut bits = u64::from(m) & self.full;
                 if !self.priv_ok(&c) {
                     c = s.closure(&c);
                     if !each_point(&c, n, |q| self.st[q] != OFF) {
@@ -373,26 +434,39 @@ impl<'a> Engine<'a> {
                         // invalid cover.
                         return false;
                     }
+                    bits = self.raisable(&c);
                 }
-                let c = if clock.tick() { c } else { self.expand(c) };
+                let c = if clock.tick() { c } else { self.grow(c, bits) };
                 self.add(c);
             }
         }
         if s.adjacent_pairs {
-            for p in 0..self.st.len() {
-                if self.st[p] != ON {
-                    continue;
-                }
-                let mut f = self.nb[p] as u64 & !(p as u64);
-                while f != 0 {
-                    let v = f.trailing_zeros() as usize;
-                    f &= f - 1;
-                    if !on_at(&self.on_bits, p | 1 << v) || self.pairs[self.slot(p, v)] > 0 {
-                        continue;
+            // The on-set points in order: a point's record follows the last one's.
+            let mut r = 0;
+            for w in 0..self.words.len() {
+                let mut x = self.words[w].on;
+                while x != 0 {
+                    let p = w << 6 | x.trailing_zeros() as usize;
+                    x &= x - 1;
+                    let m = u64::from(self.nb[p]);
+                    let mut f = m & !(p as u64);
+                    while f != 0 {
+                        let v = f.trailing_zeros() as usize;
+                        f &= f - 1;
+                        let q = p | 1 << v;
+                        if !on_at(&self.words, q) || self.rec[r + 4 + v] > 0 {
+                            continue;
+                        }
+                        // The pair's raisable literals: those in both points' masks.
+                        let c = Cube::from_words(self.full & !(1 << v), p as u64);
+                        let c = if clock.tick() {
+                            c
+                        } else {
+                            self.grow(c, c.care_bits() & m & u64::from(self.nb[q]))
+                        };
+                        self.add(c);
                     }
-                    let c = Cube::from_words(self.full & !(1 << v), p as u64);
-                    let c = if clock.tick() { c } else { self.expand(c) };
-                    self.add(c);
+                    r += self.stride;
                 }
             }
         }
@@ -405,9 +479,7 @@ impl<'a> Engine<'a> {
         let Some(c) = self.cubes[k] else {
             return false;
         };
-        let n = self.n;
         let free = self.full & !c.care_bits();
-        let pairs_on = !self.pairs.is_empty();
         let mut sc: Option<Cube> = None;
         let join = |sc: &mut Option<Cube>, x: Cube| {
             *sc = Some(match *sc {
@@ -415,21 +487,22 @@ impl<'a> Engine<'a> {
                 None => x,
             });
         };
-        each_point(&c, n, |p| {
-            if self.st[p] != ON {
+        each_point(&c, self.n, |p| {
+            if !on_at(&self.words, p) {
                 return true;
             }
             let pt = Cube::from_words(self.full, p as u64);
-            if self.cnt[p] == 1 {
+            let r = self.record(p);
+            if count(&self.rec, r) == 1 {
                 join(&mut sc, pt);
             }
-            if pairs_on {
+            if self.stride > 4 {
                 let mut f = free & !(p as u64);
                 while f != 0 {
                     let v = f.trailing_zeros() as usize;
                     f &= f - 1;
-                    let x = if on_at(&self.on_bits, p | 1 << v) {
-                        self.pairs[self.slot(p, v)]
+                    let x = if on_at(&self.words, p | 1 << v) {
+                        self.rec[r + 4 + v]
                     } else {
                         0
                     };
@@ -517,26 +590,52 @@ fn order_by<T>(items: &[T], lits: impl Fn(&T) -> Option<usize>, most_first: bool
     order
 }
 
-/// Whether point `q` is in the on-set, from the on-set bitset (an eighth of the state
-/// table, read at scattered points by the paint, removal and pair loops).
-#[inline]
-fn on_at(on_bits: &[u64], q: usize) -> bool {
-    on_bits[q >> 6] >> (q & 63) & 1 == 1
+/// 64 points' words of the bitsets the hot loops read at scattered points, side by
+/// side: one cache line tells whether a point is on, held or outside the off-set, and
+/// its rank among the on-set points (a bitset is an eighth of the state table).
+#[derive(Debug, Clone, Copy)]
+struct Word {
+    /// The on-set points.
+    on: u64,
+    /// The on-set points held by some product (kept by [`Engine::paint`]).
+    held: u64,
+    /// The points outside the off-set.
+    not_off: u64,
+    /// The on-set points below this word.
+    below: u32,
 }
 
-/// [`Engine::slot`] from the on-set bitset and its counts per word.
+/// Whether bit `q` mod 64 of `x` is set (point `q` in its word's bitset `x`).
 #[inline]
-fn pair_slot(on_bits: &[u64], on_below: &[u32], n: usize, p: usize, v: usize) -> usize {
-    let w = p >> 6;
-    let rank = on_below[w] as usize + (on_bits[w] & ((1u64 << (p & 63)) - 1)).count_ones() as usize;
-    rank * n + v
+fn bit(x: u64, q: usize) -> bool {
+    x >> (q & 63) & 1 == 1
+}
+
+/// Whether point `q` is in the on-set.
+#[inline]
+fn on_at(words: &[Word], q: usize) -> bool {
+    bit(words[q >> 6].on, q)
+}
+
+/// The on-set points below `p`.
+#[inline]
+fn rank(words: &[Word], p: usize) -> usize {
+    let w = &words[p >> 6];
+    w.below as usize + (w.on & ((1u64 << (p & 63)) - 1)).count_ones() as usize
+}
+
+/// The holder count of the record at `r` of [`Engine::rec`].
+#[inline]
+fn count(rec: &[u8], r: usize) -> u32 {
+    let mut b = [0u8; 4];
+    b.copy_from_slice(&rec[r..r + 4]);
+    u32::from_le_bytes(b)
 }
 
 /// The weight of an on-set point held by no product, from its neighbour mask `m` (see
 /// [`Engine::weight`]).
-#[inline]
-fn fresh_weight(n: usize, m: u32) -> u8 {
-    (2 + n as u32 - m.count_ones()) as u8
+fn fresh_weight(n: usize, m: u32) -> u32 {
+    2 + n as u32 - m.count_ones()
 }
 
 /// The heuristic cover of one output over its point table; `None` only if a seed point
@@ -619,12 +718,15 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
     // The cover's uniquely held points and the small-`N` points do not depend on each
     // other: built side by side (each in a fixed order, whatever the threads).
     let unique = || {
-        let mut cnt = vec![0u8; st.len()];
+        // The points held by one product and by more, as two bitsets (small enough to
+        // stay in cache while the products are painted in).
+        let words = st.len().div_ceil(64);
+        let (mut once, mut more) = (vec![0u64; words], vec![0u64; words]);
         for c in cover {
             each_point(c, n, |p| {
-                if st[p] == ON {
-                    cnt[p] = cnt[p].saturating_add(1);
-                }
+                let (w, b) = (p >> 6, 1u64 << (p & 63));
+                more[w] |= once[w] & b;
+                once[w] |= b;
                 true
             });
         }
@@ -635,7 +737,7 @@ pub(crate) fn lower_bound(s: &OutputSpec, t: &Table, cover: &[Cube], clock: &Clo
             .filter_map(|&k| {
                 let mut found = None;
                 each_point(&cover[k], n, |p| {
-                    if st[p] == ON && cnt[p] == 1 {
+                    if (once[p >> 6] & !more[p >> 6]) >> (p & 63) & 1 == 1 && st[p] == ON {
                         found = Some(p as u32);
                         false
                     } else {
