@@ -247,10 +247,11 @@ impl AssignConfig {
 
 /// SAT work units (conflicts of the solver, counted as learned clauses, summed over the
 /// two solvers that run at once, see `docs/assign.md`) the exact Tracey method may spend
-/// per second of [`AssignConfig::budget`]. Calibrated on the 2-core machine this was
-/// measured on: one solver did 14 000-15 000 conflicts per second on random 24-state
-/// tables under a load of 2, so two at once spend this allowance in about 0.7 s per
-/// second of budget, leaving the wall-clock safety net for a slower or busier machine.
+/// per second of [`AssignConfig::budget`]. On the 2-core machine this was measured on,
+/// two solvers did 21 000-26 000 units per second on the easier widths of random
+/// 24-state tables but only 13 000-16 500 on the hardest ones (idle machine), so on those
+/// the wall-clock safety net, not this allowance, ends a search that runs out of budget
+/// (and [`AssignStats::clock_stopped`] says so).
 pub const SAT_WORK_PER_SECOND: u64 = 20_000;
 
 /// Counts and times of one [`assign`] run.
