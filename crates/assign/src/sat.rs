@@ -818,24 +818,22 @@ pub(crate) fn decide_split(
         }
         let [l0, l1] = &mut lanes;
         // A lone open cube is cut in two on its first free bit, so both threads work.
-        for _ in 0..2 {
-            let (long, short) = if l0.is_empty() {
-                (&mut *l1, &mut *l0)
-            } else {
-                (&mut *l0, &mut *l1)
-            };
-            if short.is_empty() && long.len() == 1 {
-                let c = long[0];
-                if let Some(&x) = order
-                    .iter()
-                    .find(|&&x| !cubes[c].iter().any(|l| l.abs() == x))
-                {
-                    let mut other = cubes[c].clone();
-                    cubes[c].push(x);
-                    other.push(-x);
-                    cubes.push(other);
-                    short.push(cubes.len() - 1);
-                }
+        let (long, short) = if l0.is_empty() {
+            (&mut *l1, &mut *l0)
+        } else {
+            (&mut *l0, &mut *l1)
+        };
+        if short.is_empty() && long.len() == 1 {
+            let c = long[0];
+            if let Some(&x) = order
+                .iter()
+                .find(|&&x| !cubes[c].iter().any(|l| l.abs() == x))
+            {
+                let mut other = cubes[c].clone();
+                cubes[c].push(x);
+                other.push(-x);
+                cubes.push(other);
+                short.push(cubes.len() - 1);
             }
         }
         while l0.len() > l1.len() + 1 {
