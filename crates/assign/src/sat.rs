@@ -640,16 +640,16 @@ pub(crate) fn decide(
     }
 }
 
-/// The conflict limit of each cube in the first round of [`decide_split`].
+/// The conflict limit of each cube in the first pass of [`decide_split`].
 pub(crate) const FIRST_CUBE_LIMIT: u64 = 250;
 
-/// What one thread of [`decide_split`] did in one round.
+/// What one thread of [`decide_split`] did in one pass.
 struct Lane {
-    /// Conflicts spent this round.
+    /// Conflicts spent in this pass.
     spent: u64,
     /// The first cube found satisfiable (the engine holds its model).
     sat: bool,
-    /// The cores of the cubes found unsatisfiable this round.
+    /// The cores of the cubes found unsatisfiable in this pass.
     cores: Vec<Vec<i32>>,
     /// Whether the deadline or the cancel flag stopped it.
     interrupted: bool,
@@ -660,10 +660,10 @@ fn refuted(cube: &[i32], cores: &[Vec<i32>]) -> bool {
     cores.iter().any(|c| c.iter().all(|l| cube.contains(l)))
 }
 
-/// One round of one thread: every open cube of `mine` that no core refutes, under at
+/// One pass of one thread: every open cube of `mine` that no core refutes, under at
 /// most `limit` conflicts each and `share` in all, in order; stops at the first
 /// satisfiable cube.
-fn lane_round(
+fn lane_pass(
     e: &mut Engine,
     cubes: &[Vec<i32>],
     mine: &[usize],
@@ -772,8 +772,8 @@ pub(crate) fn decide_split(
         let limit = if pass == 0 { FIRST_CUBE_LIMIT } else { share };
         let [mine0, mine1] = &lanes;
         let (a, b) = std::thread::scope(|sc| {
-            let h = sc.spawn(|| lane_round(&mut second, &cubes, mine1, &cores, limit, share));
-            let a = lane_round(&mut first, &cubes, mine0, &cores, limit, share);
+            let h = sc.spawn(|| lane_pass(&mut second, &cubes, mine1, &cores, limit, share));
+            let a = lane_pass(&mut first, &cubes, mine0, &cores, limit, share);
             if a.sat {
                 stop_second.store(true, Ordering::Relaxed);
             }
