@@ -340,7 +340,8 @@ fn lex_rows(n: usize, ds: &[Dichotomy], r: usize) -> Vec<usize> {
     rows
 }
 
-/// The cubes that split the lexicographic encoding of width `k` into parts, as
+/// The cubes that split the lexicographic encoding of width `k` (rows `rows`, from
+/// [`lex_rows`]; bit variables `bits`) into parts, as
 /// assumption literals. In the order of [`lex_order`] the first row's bits do not
 /// increase from column to column, so its code is `1^w 0^(k-w)` for some `w` in
 /// `0..=k`; within each of the two blocks of columns where that row is constant the
@@ -348,9 +349,8 @@ fn lex_rows(n: usize, ds: &[Dichotomy], r: usize) -> Vec<usize> {
 /// Every solution of the encoding lies in exactly one cube `(w, a, b)`, so the formula
 /// is unsatisfiable exactly when every cube is (with fewer than two rows, the cubes of
 /// the rows there are).
-fn lex_cubes(n: usize, ds: &[Dichotomy], bits: &[Vec<i32>]) -> Vec<Vec<i32>> {
+fn lex_cubes(rows: &[usize], bits: &[Vec<i32>]) -> Vec<Vec<i32>> {
     let k = bits.first().map_or(0, Vec::len);
-    let rows = lex_rows(n, ds, pivot(n, ds));
     let lit = |s: usize, i: usize, one: bool| if one { bits[s][i] } else { -bits[s][i] };
     let Some(&first) = rows.first() else {
         return vec![Vec::new()];
@@ -644,6 +644,7 @@ pub(crate) fn decide(
 pub(crate) const FIRST_CUBE_LIMIT: u64 = 250;
 
 /// What one thread of [`decide_split`] did in one pass.
+#[derive(Default)]
 struct Lane {
     /// Conflicts spent in this pass.
     spent: u64,
@@ -671,12 +672,7 @@ fn lane_pass(
     limit: u64,
     share: u64,
 ) -> Lane {
-    let mut lane = Lane {
-        spent: 0,
-        sat: false,
-        cores: Vec::new(),
-        interrupted: false,
-    };
+    let mut lane = Lane::default();
     for &c in mine {
         let cube = &cubes[c];
         if refuted(cube, known) || refuted(cube, &lane.cores) {
@@ -742,12 +738,10 @@ pub(crate) fn decide_split(
         return a;
     }
     let f = formula(n, ds, clique, k, Sym::Lex);
-    let mut cubes = lex_cubes(n, ds, &f.1);
+    let rows = lex_rows(n, ds, pivot(n, ds));
+    let mut cubes = lex_cubes(&rows, &f.1);
     // The bit variables in the rows' order, to split a cube further.
-    let order: Vec<i32> = lex_rows(n, ds, pivot(n, ds))
-        .iter()
-        .flat_map(|&s| f.1[s].iter().copied())
-        .collect();
+    let order: Vec<i32> = rows.iter().flat_map(|&s| f.1[s].iter().copied()).collect();
     let stop_second = Arc::new(AtomicBool::new(false));
     let never = Arc::new(AtomicBool::new(false));
     let mut first = Engine::new(f.clone(), Tuning::Find, work.deadline, never);
@@ -778,10 +772,8 @@ pub(crate) fn decide_split(
                 stop_second.store(true, Ordering::Relaxed);
             }
             let b = h.join().unwrap_or(Lane {
-                spent: 0,
-                sat: false,
-                cores: Vec::new(),
                 interrupted: true,
+                ..Lane::default()
             });
             (a, b)
         });
@@ -1251,7 +1243,7 @@ mod tests {
         let n = p.num_states;
         for k in 3..=5 {
             let f = formula(n, &ds, &[], k, Sym::Lex);
-            let cubes = lex_cubes(n, &ds, &f.1);
+            let cubes = lex_cubes(&lex_rows(n, &ds, pivot(n, &ds)), &f.1);
             let mut e = Engine::new(f, Tuning::Find, None, Arc::new(AtomicBool::new(false)));
             let mut models = 0;
             while e.run(u64::MAX) == Run::Sat && models < 2000 {
