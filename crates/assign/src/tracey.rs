@@ -523,13 +523,18 @@ pub(crate) fn exact_sat(
         let start = start_of(&best[0]);
         // Each width at most a quarter of a first allowance when it is the last open
         // one (the upward phase tries it again), four first allowances otherwise
-        // (bounded also when the work is not): the local search mostly finds codes at
-        // once or not at all.
+        // (bounded also when the work is not), from the narrowed incumbent and then the
+        // same again from random codes: the local search mostly finds codes at once or
+        // not at all, and the two starts find different ones.
         let first = crate::sat::FIRST_ALLOWANCE;
         let room = down
             .left
             .min(if ub - 1 > lb { 4 * first } else { first / 4 });
-        match local_search(n, ds, ub - 1, &start, &mut down, room, 0) {
+        let found = local_search(n, ds, ub - 1, &start, &mut down, room, 0).or_else(|| {
+            let room = down.left.min(room);
+            crate::sat::random_walks(n, ds, ub - 1, &mut down, room, 0)
+        });
+        match found {
             Some(cls) => {
                 ub -= 1;
                 best = vec![cls];
