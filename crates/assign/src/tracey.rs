@@ -491,9 +491,9 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 
 /// The SAT engine (see [`crate::sat`]) with the local search ([`crate::local`]): first,
 /// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
-/// searched for by the local search alone (each start from the incumbent's codes, at most
-/// an eighth of the allowance in all, per width four first allowances or, for the last
-/// open width, a quarter of one) while it finds codes; then widths `lb, lb + 1, ...`
+/// searched for by the local search alone (from the incumbent's codes and then from
+/// random codes, at most an eighth of the allowance in all, per width and start four
+/// first allowances or, for the last open width, a quarter of one) while it finds codes; then widths `lb, lb + 1, ...`
 /// upward are decided ([`crate::sat::decide_pair`]: local search, then a solver tuned to
 /// find codes and one tuned to refute, at once, and for a width that resists, its cubes
 /// shared by two solvers), each proven infeasible raising the
