@@ -1059,8 +1059,9 @@ mod tests {
     #[test]
     #[ignore]
     fn probe() {
-        // Manual measurement: SP_PROBE="rows inputs seed k mode units" (mode 0 clique, 1
-        // lexicographic, 2 local search); SP_FIND: the finder's option set; SP_PAIR: both
+        // Manual measurement: SP_PROBE="rows inputs seed k mode units [walk]" (mode 0
+        // clique, 1 lexicographic, 2 local search from random codes, `units` its steps,
+        // `walk` its seed, default 0); SP_FIND: the finder's option set; SP_PAIR: both
         // solvers at once; SP_DUMP=path: the formula in DIMACS.
         let v: Vec<u64> = std::env::var("SP_PROBE")
             .unwrap()
@@ -1078,7 +1079,8 @@ mod tests {
                 evals: u64::MAX,
                 deadline: None,
             };
-            let c = crate::local::search(p.num_states, &ds, v[3] as usize, &[], lim, 0);
+            let walk = v.get(6).copied().unwrap_or(0);
+            let c = crate::local::search(p.num_states, &ds, v[3] as usize, &[], lim, walk);
             println!(
                 "PROBE local {:?}: {} dichotomies, {:.3} s, {} steps, {}",
                 v,
@@ -1369,6 +1371,31 @@ mod tests {
             Tuning::Find,
         );
         assert!(matches!(a, Answer::Found(_) | Answer::Stopped));
+    }
+
+    #[test]
+    fn walks_from_random_codes_find_the_same_code_every_time() {
+        // At the heuristic's width a pair of walks finds a code; two runs return the same
+        // classes and charge the same work, and the classes cover every required
+        // dichotomy (the checker is `Dichotomy::covers`, not the walk's own masks).
+        let t = stillpoint_table::testing::random_normal_table(3, 16, 4);
+        let p = crate::problem::Problem::from_table(&t).unwrap();
+        let ds = required_for(&p).unwrap();
+        let k = crate::tracey::fast(&ds, 16).len();
+        let runs: Vec<(Option<Classes>, u64)> = (0..2)
+            .map(|_| {
+                let mut w = Work::new(1_000_000, None);
+                let c = random_walks(16, &ds, k, &mut w, 100_000, 3);
+                (c, w.used)
+            })
+            .collect();
+        assert_eq!(runs[0], runs[1]);
+        let cls = runs[0].0.clone().expect("a code at the heuristic's width");
+        assert_eq!(cls.len(), k);
+        assert!(ds.iter().all(|&d| cls.iter().any(|c| c.covers(d))));
+        // No allowance, no walk.
+        let mut w = Work::new(0, None);
+        assert_eq!(random_walks(16, &ds, k, &mut w, 0, 3), None);
     }
 
     #[test]
