@@ -915,7 +915,7 @@ pub(crate) fn local_search(
 
 /// Two local searches ([`local_search`]) for codes of width `k` from random codes at
 /// once, one thread each (walk seeds `2 * seed + 1` and `2 * seed + 2`), each with half
-/// of `allowance`. A walk from random codes finds codes that walks from a narrowed wider
+/// of `allowance` (or of what is left of `work`, when that is less). A walk from random codes finds codes that walks from a narrowed wider
 /// code miss (on a 24-state table of 16 columns, width 7: random starts found a code
 /// with each of ten seeds in 1 444 to 119 717 steps, the narrowed width-8 code in none),
 /// so the decisions below mix both. The first walk's code wins over the second's and both
@@ -928,7 +928,7 @@ pub(crate) fn random_walks(
     allowance: u64,
     seed: u64,
 ) -> Option<Classes> {
-    let half = (allowance / 2).max(1);
+    let half = (allowance.min(work.left) / 2).max(1);
     let mut w0 = work.part(half);
     let mut w1 = work.part(half);
     let (a, b) = std::thread::scope(|sc| {
