@@ -22,7 +22,7 @@
 //!
 //! The branch and bound gets at most `BB_NODES` (20 000) nodes (it settles small tables at once);
 //! if it has not proven its width, a local search (module `local`) looks for narrower
-//! codes below the incumbent, then widths upward from the bound are decided by the local
+//! codes below the incumbent (walking from the incumbent's codes and from random ones), then widths upward from the bound are decided by the local
 //! search and a SAT decision procedure for one width (module `sat`: two solvers on the
 //! dichotomies at once, one tuned to find codes, one to refute), each infeasible width
 //! raising the bound.
