@@ -409,7 +409,8 @@ fn beyond() {
 }
 
 /// One run of one point, for profiling: `one cover MODE EFFORT VARS [sparse]`,
-/// `one tracey ROWS COLS`, `one tracey-fast ROWS COLS`, `one reduce ROWS COLS`.
+/// `one tracey ROWS COLS`, `one tracey-fast ROWS COLS`, `one synth-fast ROWS COLS`,
+/// `one reduce ROWS COLS`.
 fn one(args: &[String]) {
     let num = |i: usize| -> usize { args.get(i).and_then(|a| a.parse().ok()).expect("a number") };
     let s = Instant::now();
@@ -467,12 +468,31 @@ fn one(args: &[String]) {
                 ms(s.elapsed())
             );
         }
+        Some("synth-fast") => {
+            let t = common::table(num(1), num(2));
+            let cfg = stillpoint::synth::SynthConfig::default()
+                .method(Method::TraceyFast)
+                .effort(Effort::Fast)
+                .alternatives(1)
+                .budget(budget());
+            match stillpoint::synth::synthesize(&t, &cfg) {
+                Ok(d) => println!(
+                    "{} rows, width {}, {} products, verified {}; {} ms",
+                    d.table.num_states(),
+                    d.assignment.codes.width(),
+                    d.solution.cube_count,
+                    d.verification.ok,
+                    ms(s.elapsed())
+                ),
+                Err(e) => println!("error: {e}"),
+            }
+        }
         Some("reduce") => {
             let t = common::table(num(1), num(2));
             let r = reduce(&t, &ReduceConfig::default().budget(budget())).expect("reduces");
             println!("{}", r.stats);
         }
-        _ => eprintln!("usage: one cover|tracey|tracey-fast|reduce ..."),
+        _ => eprintln!("usage: one cover|tracey|tracey-fast|synth-fast|reduce ..."),
     }
 }
 

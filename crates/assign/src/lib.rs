@@ -11,7 +11,8 @@
 //!
 //! Methods ([`Method`]), one module each:
 //! - [`tracey`]: Tracey's partition method, exact minimum width within a budget
-//!   (`tracey`), and a first-fit heuristic (`tracey-fast`);
+//!   (`tracey`), and a heuristic (`tracey-fast`: first-fit packing, then walks from
+//!   random codes to narrower widths);
 //! - [`universal`]: Liu's universal code, and in the `tan` slot a pruned linear universal
 //!   code of our own (Tan's 1971 construction could not be read; see that module);
 //! - [`adjacent`]: unit-distance codes (every transition changes one bit);
@@ -128,7 +129,8 @@ pub enum AssignError {
 pub enum Method {
     /// Exact minimum width by Tracey's partition method (within the budget).
     Tracey,
-    /// Tracey's dichotomies packed by a first-fit heuristic, for large tables.
+    /// Tracey's dichotomies packed by a first-fit heuristic, then narrowed by a local
+    /// search (walks from random codes, a bounded amount of work), for large tables.
     TraceyFast,
     /// Liu's universal code, `2^ceil(log2 n) - 1` variables.
     Liu,
@@ -459,6 +461,7 @@ pub(crate) fn assign_problem(
                 let clique = tracey::incompatible_clique(&ds, 4).len();
                 stats.incompatible_clique = clique;
                 let lb = tracey::log2_bound(n).max(clique);
+                let cls = tracey::descend(n, &ds, cls, lb, deadline);
                 let opt = widen(cls.len()) == lb;
                 (vec![cls], lb, opt)
             };
