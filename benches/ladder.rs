@@ -387,25 +387,31 @@ fn beyond() {
         }
     }
     for (n, c) in [(64usize, 16usize), (96, 16), (128, 16)] {
-        let t = common::table(n, c);
         let s = Instant::now();
-        let cfg = stillpoint::synth::SynthConfig::default()
-            .method(Method::TraceyFast)
-            .effort(Effort::Fast)
-            .alternatives(1)
-            .budget(budget());
-        match stillpoint::synth::synthesize(&t, &cfg) {
-            Ok(d) => println!(
-                "| synth fast | {n} x {c} | {} rows, width {}, {} products, verified {} | {} |",
-                d.table.num_states(),
-                d.assignment.codes.width(),
-                d.solution.cube_count,
-                d.verification.ok,
-                ms(s.elapsed())
-            ),
+        match synth_fast(n, c) {
+            Ok(what) => println!("| synth fast | {n} x {c} | {what} | {} |", ms(s.elapsed())),
             Err(e) => println!("| synth fast | {n} x {c} | error: {e} | - |"),
         }
     }
+}
+
+/// The whole pipeline's fast configuration (`tracey-fast` codes, heuristic cover) on the
+/// bench table of `rows x cols`: rows after reduction, width, products, verified.
+fn synth_fast(rows: usize, cols: usize) -> Result<String, String> {
+    let t = common::table(rows, cols);
+    let cfg = stillpoint::synth::SynthConfig::default()
+        .method(Method::TraceyFast)
+        .effort(Effort::Fast)
+        .alternatives(1)
+        .budget(budget());
+    let d = stillpoint::synth::synthesize(&t, &cfg).map_err(|e| e.to_string())?;
+    Ok(format!(
+        "{} rows, width {}, {} products, verified {}",
+        d.table.num_states(),
+        d.assignment.codes.width(),
+        d.solution.cube_count,
+        d.verification.ok
+    ))
 }
 
 /// One run of one point, for profiling: `one cover MODE EFFORT VARS [sparse]`,
@@ -468,25 +474,10 @@ fn one(args: &[String]) {
                 ms(s.elapsed())
             );
         }
-        Some("synth-fast") => {
-            let t = common::table(num(1), num(2));
-            let cfg = stillpoint::synth::SynthConfig::default()
-                .method(Method::TraceyFast)
-                .effort(Effort::Fast)
-                .alternatives(1)
-                .budget(budget());
-            match stillpoint::synth::synthesize(&t, &cfg) {
-                Ok(d) => println!(
-                    "{} rows, width {}, {} products, verified {}; {} ms",
-                    d.table.num_states(),
-                    d.assignment.codes.width(),
-                    d.solution.cube_count,
-                    d.verification.ok,
-                    ms(s.elapsed())
-                ),
-                Err(e) => println!("error: {e}"),
-            }
-        }
+        Some("synth-fast") => match synth_fast(num(1), num(2)) {
+            Ok(what) => println!("{what}; {} ms", ms(s.elapsed())),
+            Err(e) => println!("error: {e}"),
+        },
         Some("reduce") => {
             let t = common::table(num(1), num(2));
             let r = reduce(&t, &ReduceConfig::default().budget(budget())).expect("reduces");
