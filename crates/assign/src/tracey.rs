@@ -22,8 +22,9 @@
 //!
 //! The branch and bound gets at most `BB_NODES` (20 000) nodes (it settles small tables at once);
 //! if it has not proven its width, a local search (module `local`) looks for narrower
-//! codes below the incumbent (walking from the incumbent's codes and from random ones), then widths upward from the bound are decided by the local
-//! search and a SAT decision procedure for one width (module `sat`: two solvers on the
+//! codes below the incumbent (walking from the incumbent's codes and from random ones),
+//! then widths upward from the bound are decided by the local search and a SAT decision
+//! procedure for one width (module `sat`: two solvers on the
 //! dichotomies at once, one tuned to find codes, one to refute), each infeasible width
 //! raising the bound.
 //!
@@ -31,9 +32,10 @@
 //! few deterministic orders, keeping the narrowest, then a descent (`descend`): each
 //! narrower width is tried by walks from random codes with a fixed amount of work, until
 //! a width is missed; its gap to the lower bound is reported, the bound raised on small
-//! tables by a short SAT run (`raise_bound`). Weakness: neither stage
-//! proves anything, so the width may be above the optimum (on random 24 x 16 tables it
-//! mostly reaches the optimum, 7; on 64 x 16 it gives 14 where first-fit alone gave 22).
+//! tables by a short SAT run (`raise_bound`). Weakness: neither the packing nor the
+//! walks prove anything, so the width may be above the optimum (on the benches' 24 x 16
+//! table it gives 7, the proven optimum of most random 24 x 16 tables; on 64 x 16 it gives
+//! 14 where first-fit alone gave 22).
 //!
 //! **Lower bound**: `max(ceil(log2 n), c)` where `c` is the size of a clique of pairwise
 //! incompatible dichotomies (each needs its own variable), raised by every width the exact
@@ -580,8 +582,8 @@ pub(crate) fn exact(p: &Problem, ds: &[Dichotomy], limits: Limits, want: usize) 
 /// from the incumbent `best` (at least one cover), widths `ub - 1, ub - 2, ...` are
 /// searched for by the local search alone (from the incumbent's codes and then from
 /// random codes, at most an eighth of the allowance in all, per width and start four
-/// first allowances or, for the last open width, a quarter of one) while it finds codes; then widths `lb, lb + 1, ...`
-/// upward are decided ([`crate::sat::decide_pair`]: local search, then a solver tuned to
+/// first allowances or, for the last open width, a quarter of one) while it finds codes;
+/// then widths `lb, lb + 1, ...` upward are decided ([`crate::sat::decide_pair`]: local search, then a solver tuned to
 /// find codes and one tuned to refute, at once, and for a width that resists, its cubes
 /// shared by two solvers), each proven infeasible raising the
 /// bound, until one is feasible (it is then optimal) or the allowance stops a solve.
