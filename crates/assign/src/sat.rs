@@ -915,10 +915,10 @@ pub(crate) fn local_search(
 
 /// Two local searches ([`local_search`]) for codes of width `k` from random codes at
 /// once, one thread each (walk seeds `2 * seed + 1` and `2 * seed + 2`), each with half
-/// of `allowance` (or of what is left of `work`, when that is less). A walk from random codes finds codes that walks from a narrowed wider
-/// code miss (on a 24-state table of 16 columns, width 7: random starts found a code
-/// with each of ten seeds in 1 444 to 119 717 steps, the narrowed width-8 code in none),
-/// so the decisions below mix both. The first walk's code wins over the second's and both
+/// of `allowance` (or of what is left of `work`, when that is less). A walk from random
+/// codes finds codes that walks from a narrowed wider code miss (on a 24-state table of
+/// 16 columns, width 7: random starts found a code with each of ten seeds in 1 444 to
+/// 119 717 steps, the narrowed width-8 code in none), so the decisions below mix both. The first walk's code wins over the second's and both
 /// walks are charged in full, so the answer is the same on every run.
 pub(crate) fn random_walks(
     n: usize,
@@ -946,10 +946,9 @@ pub(crate) fn random_walks(
 /// runs from `start` (codes of a wider incumbent, or empty) with a quarter of the first
 /// round's allowance; each round then runs two walks from random codes
 /// ([`random_walks`], a new seed each round) with a quarter of the round's allowance,
-/// then two solvers on the lexicographic encoding at
-/// once, one thread each, one with the option set that finds codes ([`Tuning::Find`])
-/// and one with the set that refutes ([`Tuning::Refute`]), with the round's allowance as
-/// conflict limit (each round continues the solvers' earlier work). From the round whose
+/// then two solvers on the lexicographic encoding at once, one thread each, one with
+/// the option set that finds codes ([`Tuning::Find`]) and one with the set that refutes
+/// ([`Tuning::Refute`]), with the round's allowance as conflict limit (each round continues the solvers' earlier work). From the round whose
 /// allowance reaches [`SPLIT_FROM`], the rest of the decision goes to [`decide_split`].
 ///
 /// The answer is the same on every run whatever the threads' speeds: the finder's code

@@ -24,9 +24,8 @@
 //! if it has not proven its width, a local search (module `local`) looks for narrower
 //! codes below the incumbent (walking from the incumbent's codes and from random ones),
 //! then widths upward from the bound are decided by the local search and a SAT decision
-//! procedure for one width (module `sat`: two solvers on the
-//! dichotomies at once, one tuned to find codes, one to refute), each infeasible width
-//! raising the bound.
+//! procedure for one width (module `sat`: two solvers on the dichotomies at once, one
+//! tuned to find codes, one to refute), each infeasible width raising the bound.
 //!
 //! **Heuristic** ([`Method::TraceyFast`](crate::Method::TraceyFast)): first-fit packing of the dichotomies into variables, in a
 //! few deterministic orders, keeping the narrowest, then a descent (`descend`): each
